@@ -1,0 +1,155 @@
+//! The command line: the same core, for scripts, batch work and wiki pipelines.
+//!
+//! Every verb exits 0 on success, 2 on bad input with one line naming the file
+//! and the field at fault, and 1 when output cannot be written. Never a panic.
+
+use crate::document::Document;
+use crate::error::{Error, ErrorKind};
+use crate::lines::rotation_at_lines;
+use crate::model::Model;
+use crate::spectra::{evaluate, Grid};
+use crate::table::{number, spectra_csv};
+use crate::units::AxisUnit;
+use clap::{Parser, Subcommand};
+use std::ffi::OsString;
+use std::io::Write;
+use std::path::{Path, PathBuf};
+
+#[derive(Parser)]
+#[command(name = "chiroptic", version, about = "Chiral band models: CD and ORD from n_L and n_R")]
+struct Cli {
+    #[command(subcommand)]
+    verb: Verb,
+}
+
+#[derive(Subcommand)]
+enum Verb {
+    /// Spectra on a grid as CSV on stdout.
+    Eval {
+        /// The model document (JSON).
+        doc: PathBuf,
+        /// First grid point (in --unit); default: a range showing every band.
+        #[arg(long)]
+        from: Option<f64>,
+        /// Last grid point (in --unit).
+        #[arg(long)]
+        to: Option<f64>,
+        /// Grid step (in --unit).
+        #[arg(long)]
+        step: Option<f64>,
+        /// Unit of --from, --to and --step: nm, cm-1 or ev.
+        #[arg(long, default_value = "nm")]
+        unit: String,
+    },
+    /// Rotation and specific rotation at the standard lamp lines.
+    Lines {
+        /// The model document (JSON).
+        doc: PathBuf,
+    },
+}
+
+/// A failure: the exit code and the one line to print.
+pub struct Failure {
+    pub code: i32,
+    pub message: String,
+}
+
+impl Failure {
+    fn input(origin: &str, e: Error) -> Failure {
+        Failure { code: 2, message: format!("{origin}: {e}") }
+    }
+}
+
+/// Runs the command line and returns the process exit code.
+pub fn run<I: IntoIterator<Item = OsString>>(args: I) -> i32 {
+    let cli = match Cli::try_parse_from(args) {
+        Ok(cli) => cli,
+        Err(e) => {
+            let code = if e.use_stderr() { 2 } else { 0 };
+            let _ = e.print();
+            return code;
+        }
+    };
+    let mut out = Vec::new();
+    let result = match cli.verb {
+        Verb::Eval { doc, from, to, step, unit } => eval(&doc, from, to, step, &unit, &mut out),
+        Verb::Lines { doc } => lines(&doc, &mut out),
+    };
+    match result {
+        Ok(()) => {
+            let mut stdout = std::io::stdout().lock();
+            if stdout.write_all(&out).and_then(|_| stdout.flush()).is_err() {
+                eprintln!("chiroptic: cannot write to standard output");
+                return 1;
+            }
+            0
+        }
+        Err(f) => {
+            eprintln!("chiroptic: {}", f.message);
+            f.code
+        }
+    }
+}
+
+/// Reads and validates a document file.
+pub fn load(path: &Path) -> Result<(Document, Model), Failure> {
+    let origin = path.display().to_string();
+    let meta = std::fs::metadata(path)
+        .map_err(|e| Failure::input(&origin, Error::new(ErrorKind::Io, "", format!("cannot read: {e}"))))?;
+    if meta.len() > crate::document::MAX_DOCUMENT_BYTES as u64 {
+        return Err(Failure::input(
+            &origin,
+            Error::new(ErrorKind::TooLarge, "", format!("file is {} bytes; the limit is {}", meta.len(), crate::document::MAX_DOCUMENT_BYTES)),
+        ));
+    }
+    let text = std::fs::read_to_string(path)
+        .map_err(|e| Failure::input(&origin, Error::new(ErrorKind::Io, "", format!("cannot read: {e}"))))?;
+    let doc = Document::from_json(&text).map_err(|e| Failure::input(&origin, e))?;
+    let model = Model::from_document(&doc).map_err(|e| Failure::input(&origin, e))?;
+    Ok((doc, model))
+}
+
+fn eval(
+    path: &Path,
+    from: Option<f64>,
+    to: Option<f64>,
+    step: Option<f64>,
+    unit: &str,
+    out: &mut Vec<u8>,
+) -> Result<(), Failure> {
+    let (_, model) = load(path)?;
+    let unit = AxisUnit::parse(unit).ok_or_else(|| {
+        Failure::input("--unit", Error::new(ErrorKind::UnknownName, "", format!("unknown unit \"{unit}\" (use nm, cm-1 or ev)")))
+    })?;
+    let grid = match (from, to, step) {
+        (None, None, None) => {
+            let (lo, hi) = Grid::default_range_nm(&model);
+            Grid::stepped(lo, hi, 1.0, AxisUnit::Nanometre)
+        }
+        (Some(f), Some(t), Some(s)) => Grid::stepped(f, t, s, unit),
+        _ => Err(Error::new(ErrorKind::MissingField, "", "give all of --from, --to and --step, or none")),
+    }
+    .map_err(|e| Failure::input("grid", e))?;
+    let spectra = evaluate(&model, &grid.wavenumber_cm1).map_err(|e| Failure::input(&path.display().to_string(), e))?;
+    out.extend_from_slice(spectra_csv(&spectra).as_bytes());
+    Ok(())
+}
+
+fn lines(path: &Path, out: &mut Vec<u8>) -> Result<(), Failure> {
+    let (_, model) = load(path)?;
+    let rows = rotation_at_lines(&model).map_err(|e| Failure::input(&path.display().to_string(), e))?;
+    let mut text = String::from("line,wavelength_nm,rotation_deg,specific_rotation_deg_dm-1_(g/mL)-1,molar_rotation_deg_cm2_dmol-1\n");
+    for r in rows {
+        let specific = r.specific_rotation.map(number).unwrap_or_default();
+        text.push_str(&format!(
+            "{},{},{},{},{}\n",
+            r.line.name,
+            number(r.line.wavelength_nm),
+            number(r.rotation_deg),
+            specific,
+            number(r.molar_rotation)
+        ));
+    }
+    out.extend_from_slice(text.as_bytes());
+    Ok(())
+}

@@ -1,0 +1,25 @@
+//! chiroptic: left- and right-circular refractive indices of a sample from
+//! damped oscillators with chiral coupling, and the CD and ORD that follow.
+//!
+//! Data flow: [`document::Document`] (JSON, share link) -> [`model::Model`]
+//! (validated, canonical units) -> [`spectra::evaluate`] on a grid ->
+//! [`spectra::Spectra`] -> CSV, figures, the page.
+
+pub mod document;
+pub mod error;
+pub mod kk;
+pub mod lines;
+pub mod lineshape;
+pub mod model;
+pub mod solvent;
+pub mod spectra;
+pub mod table;
+pub mod units;
+
+#[cfg(not(target_arch = "wasm32"))]
+pub mod cli;
+
+pub use document::Document;
+pub use error::{Error, ErrorKind, Result};
+pub use model::Model;
+pub use spectra::{evaluate, Grid, Spectra};

@@ -1,0 +1,81 @@
+//! Rotation at the standard polarimeter lamp lines, and the one-term Drude
+//! law that QC labs use to carry a rotation from one line to another.
+
+use crate::error::Result;
+use crate::model::Model;
+use crate::spectra::{evaluate, Spectra};
+use crate::units::{AxisUnit, OrdUnit};
+
+/// A lamp line: name and wavelength in nm as polarimeters quote it (air
+/// wavelengths, used as given: no air-to-vacuum correction is applied).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct LampLine {
+    pub name: &'static str,
+    pub wavelength_nm: f64,
+}
+
+/// The lines polarimeters offer (common practice; wavelengths from memory of
+/// the usual spectral-line tables).
+pub const STANDARD_LINES: [LampLine; 7] = [
+    LampLine { name: "He-Ne 633", wavelength_nm: 632.8 },
+    LampLine { name: "Na D", wavelength_nm: 589.3 },
+    LampLine { name: "Hg 578", wavelength_nm: 578.0 },
+    LampLine { name: "Hg 546", wavelength_nm: 546.1 },
+    LampLine { name: "Hg 436", wavelength_nm: 435.8 },
+    LampLine { name: "Hg 405", wavelength_nm: 404.7 },
+    LampLine { name: "Hg 365", wavelength_nm: 365.0 },
+];
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct LineRotation {
+    pub line: LampLine,
+    pub rotation_deg: f64,
+    pub specific_rotation: Option<f64>,
+    pub molar_rotation: f64,
+}
+
+/// Rotation, specific and molar rotation of the model at every standard line.
+pub fn rotation_at_lines(model: &Model) -> Result<Vec<LineRotation>> {
+    let grid: Vec<f64> =
+        STANDARD_LINES.iter().map(|l| AxisUnit::Nanometre.to_wavenumber(l.wavelength_nm)).collect();
+    let s: Spectra = evaluate(model, &grid)?;
+    let specific = s.specific_rotation();
+    let molar = s.ord_in(OrdUnit::MolarRotation).unwrap_or_default();
+    Ok(STANDARD_LINES
+        .iter()
+        .enumerate()
+        .map(|(i, line)| LineRotation {
+            line: *line,
+            rotation_deg: s.rotation_deg[i],
+            specific_rotation: specific.as_ref().map(|v| v[i]),
+            molar_rotation: molar[i],
+        })
+        .collect())
+}
+
+/// One-term Drude law: rotation(lambda) = a / (lambda^2 - lambda0^2).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct DrudeTerm {
+    /// Amplitude, in (rotation unit) nm^2.
+    pub amplitude_nm2: f64,
+    /// Wavelength of the effective band, nm.
+    pub lambda0_nm: f64,
+}
+
+impl DrudeTerm {
+    /// The term through two measured rotations; `None` when the two values
+    /// admit no real band wavelength (e.g. equal rotations or a sign change).
+    pub fn through(l1_nm: f64, rot1: f64, l2_nm: f64, rot2: f64) -> Option<DrudeTerm> {
+        // rot1 (l1^2 - L0^2) = rot2 (l2^2 - L0^2)
+        let l0_sq = (rot1 * l1_nm * l1_nm - rot2 * l2_nm * l2_nm) / (rot1 - rot2);
+        if !(l0_sq.is_finite() && l0_sq > 0.0) {
+            return None;
+        }
+        let amplitude = rot1 * (l1_nm * l1_nm - l0_sq);
+        Some(DrudeTerm { amplitude_nm2: amplitude, lambda0_nm: l0_sq.sqrt() })
+    }
+
+    pub fn rotation(&self, lambda_nm: f64) -> f64 {
+        self.amplitude_nm2 / (lambda_nm * lambda_nm - self.lambda0_nm * self.lambda0_nm)
+    }
+}

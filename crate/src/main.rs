@@ -1,0 +1,3 @@
+fn main() {
+    std::process::exit(chiroptic::cli::run(std::env::args_os()));
+}

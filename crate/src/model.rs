@@ -1,0 +1,195 @@
+//! The validated model in canonical internal units (cm^-1, esu^2 cm^2):
+//! built from a [`Document`], it is what the spectra are computed from.
+
+use crate::document::{BandDoc, Document, SampleDoc, SellmeierDoc, SolventDoc};
+use crate::error::{finite, positive, Error, ErrorKind, Result};
+use crate::lineshape::Lineshape;
+use crate::solvent::{Solvent, PRESETS};
+use crate::units::{self, AxisUnit, SampleContext};
+
+/// Band centres must lie in 50 nm .. 50 um.
+pub const MIN_CENTER_NM: f64 = 50.0;
+pub const MAX_CENTER_NM: f64 = 50_000.0;
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct Band {
+    pub name: String,
+    pub lineshape: Lineshape,
+    pub rotatory_strength_esu2_cm2: f64,
+    pub dipole_strength_esu2_cm2: f64,
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct Sample {
+    pub context: SampleContext,
+    pub solvent: Solvent,
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct Model {
+    pub sample: Sample,
+    pub bands: Vec<Band>,
+}
+
+impl Model {
+    pub fn from_json(text: &str) -> Result<Model> {
+        Model::from_document(&Document::from_json(text)?)
+    }
+
+    pub fn from_document(doc: &Document) -> Result<Model> {
+        let sample = sample_from_doc(&doc.sample)?;
+        let bands = doc
+            .bands
+            .iter()
+            .enumerate()
+            .map(|(i, b)| band_from_doc(i, b))
+            .collect::<Result<Vec<_>>>()?;
+        Ok(Model { sample, bands })
+    }
+
+    /// Band centres in cm^-1.
+    pub fn centers(&self) -> impl Iterator<Item = f64> + '_ {
+        self.bands.iter().map(|b| b.lineshape.center())
+    }
+}
+
+fn sample_from_doc(s: &SampleDoc) -> Result<Sample> {
+    let concentration = positive("sample.concentration_mol_per_l", s.concentration_mol_per_l, "concentration")?;
+    let path = positive("sample.path_length_cm", s.path_length_cm, "path length")?;
+    let molar_mass = s
+        .molar_mass_g_per_mol
+        .map(|m| positive("sample.molar_mass_g_per_mol", m, "molar mass"))
+        .transpose()?;
+    let mrw = s
+        .mean_residue_weight_g_per_mol
+        .map(|m| positive("sample.mean_residue_weight_g_per_mol", m, "mean residue weight"))
+        .transpose()?;
+    Ok(Sample {
+        context: SampleContext {
+            concentration_mol_per_l: concentration,
+            path_length_cm: path,
+            molar_mass_g_per_mol: molar_mass,
+            mean_residue_weight_g_per_mol: mrw,
+        },
+        solvent: solvent_from_doc(&s.solvent)?,
+    })
+}
+
+fn solvent_from_doc(s: &SolventDoc) -> Result<Solvent> {
+    let given = [s.constant.is_some(), s.cauchy.is_some(), s.sellmeier.is_some()];
+    if given.iter().filter(|g| **g).count() != 1 {
+        return Err(Error::new(
+            ErrorKind::MissingField,
+            "sample.solvent",
+            "give exactly one of \"constant\", \"cauchy\" or \"sellmeier\"",
+        ));
+    }
+    if let Some(n) = s.constant {
+        let n = positive("sample.solvent.constant", n, "refractive index")?;
+        if !(1.0..=4.0).contains(&n) {
+            return Err(Error::new(
+                ErrorKind::OutOfRange,
+                "sample.solvent.constant",
+                format!("refractive index must lie in 1..4 (got {n})"),
+            ));
+        }
+        return Ok(Solvent::Constant(n));
+    }
+    if let Some(c) = &s.cauchy {
+        positive("sample.solvent.cauchy.a", c.a, "Cauchy term a")?;
+        finite("sample.solvent.cauchy.b_um2", c.b_um2)?;
+        finite("sample.solvent.cauchy.c_um4", c.c_um4)?;
+        return Ok(Solvent::Cauchy { a: c.a, b_um2: c.b_um2, c_um4: c.c_um4 });
+    }
+    match &s.sellmeier {
+        Some(SellmeierDoc::Preset(name)) => Solvent::preset(name).ok_or_else(|| {
+            Error::new(
+                ErrorKind::UnknownName,
+                "sample.solvent.sellmeier",
+                format!("unknown preset \"{name}\" (known: {})", PRESETS.join(", ")),
+            )
+        }),
+        Some(SellmeierDoc::Coefficients { b, c_um2 }) => {
+            if b.len() != c_um2.len() || b.is_empty() || b.len() > 8 {
+                return Err(Error::new(
+                    ErrorKind::OutOfRange,
+                    "sample.solvent.sellmeier",
+                    format!("needs 1 to 8 terms with as many b as c_um2 (got {} and {})", b.len(), c_um2.len()),
+                ));
+            }
+            for (i, (bi, ci)) in b.iter().zip(c_um2).enumerate() {
+                finite(&format!("sample.solvent.sellmeier.b[{i}]"), *bi)?;
+                finite(&format!("sample.solvent.sellmeier.c_um2[{i}]"), *ci)?;
+            }
+            Ok(Solvent::Sellmeier { b: b.clone(), c_um2: c_um2.clone() })
+        }
+        None => unreachable_solvent(),
+    }
+}
+
+// Kept out of line: the count check above guarantees one variant was given.
+fn unreachable_solvent() -> Result<Solvent> {
+    Err(Error::new(ErrorKind::MissingField, "sample.solvent", "no solvent given"))
+}
+
+fn band_from_doc(i: usize, b: &BandDoc) -> Result<Band> {
+    let field = |name: &str| format!("bands[{i}].{name}");
+    let center_nm = finite(&field("center_nm"), b.center_nm)?;
+    if !(MIN_CENTER_NM..=MAX_CENTER_NM).contains(&center_nm) {
+        return Err(Error::new(
+            ErrorKind::OutOfRange,
+            field("center_nm"),
+            format!("centre must lie between {MIN_CENTER_NM} nm and {MAX_CENTER_NM} nm (got {center_nm})"),
+        ));
+    }
+    let center = AxisUnit::Nanometre.to_wavenumber(center_nm);
+    let fwhm = positive(&field("fwhm_cm1"), b.fwhm_cm1, "width")?;
+    if fwhm >= center {
+        return Err(Error::new(
+            ErrorKind::OutOfRange,
+            field("fwhm_cm1"),
+            format!("width must be below the band's own wavenumber {center:.0} cm⁻¹ (got {fwhm})"),
+        ));
+    }
+    let lineshape = match b.shape.as_str() {
+        "lorentz" => Lineshape::lorentz(center, fwhm),
+        "gaussian" => Lineshape::gaussian(center, fwhm),
+        "voigt" => {
+            let lf = b.lorentz_fwhm_cm1.ok_or_else(|| {
+                Error::new(ErrorKind::MissingField, field("lorentz_fwhm_cm1"), "a voigt band needs its Lorentzian width")
+            })?;
+            finite(&field("lorentz_fwhm_cm1"), lf)?;
+            if lf < 0.0 || lf >= center {
+                return Err(Error::new(
+                    ErrorKind::OutOfRange,
+                    field("lorentz_fwhm_cm1"),
+                    format!("Lorentzian width must be 0 or more and below {center:.0} cm⁻¹ (got {lf})"),
+                ));
+            }
+            Lineshape::voigt(center, fwhm, lf)
+        }
+        other => {
+            return Err(Error::new(
+                ErrorKind::UnknownName,
+                field("shape"),
+                format!("unknown shape \"{other}\" (use lorentz, gaussian or voigt)"),
+            ))
+        }
+    };
+    let r = finite(&field("rotatory_strength_1e40_cgs"), b.rotatory_strength_1e40_cgs)?;
+    let d = finite(&field("dipole_strength_debye2"), b.dipole_strength_debye2)?;
+    if d < 0.0 {
+        return Err(Error::new(
+            ErrorKind::NotPositive,
+            field("dipole_strength_debye2"),
+            format!("dipole strength cannot be negative (got {d})"),
+        ));
+    }
+    let name = if b.name.trim().is_empty() { format!("B{}", i + 1) } else { b.name.clone() };
+    Ok(Band {
+        name,
+        lineshape,
+        rotatory_strength_esu2_cm2: units::rotatory_strength_esu2_cm2(r),
+        dipole_strength_esu2_cm2: units::dipole_strength_esu2_cm2(d),
+    })
+}

@@ -1,0 +1,271 @@
+//! Spectra on a grid: n_L, n_R, k_L, k_R and everything derived from them in
+//! the units of the trade, with each band's own contribution.
+
+use crate::error::{Error, ErrorKind, Result};
+use crate::model::Model;
+use crate::units::{
+    self, AxisUnit, CdUnit, OrdUnit, SampleContext, UnitError, DIPOLE_CONSTANT, MDEG_PER_DEG,
+    ELLIPTICITY_DEG_PER_DELTA_A, ROTATORY_CONSTANT,
+};
+use std::f64::consts::{LN_10, PI};
+
+/// Largest grid accepted: enough for any spectrum, small enough for a tab.
+pub const MAX_GRID_POINTS: usize = 200_000;
+
+/// A spectral grid, stored as wavenumbers (cm^-1) in the order given.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Grid {
+    pub wavenumber_cm1: Vec<f64>,
+}
+
+impl Grid {
+    /// Points from `from` to `to` (inclusive where the step lands on it) in
+    /// steps of `step`, all in `unit`.
+    pub fn stepped(from: f64, to: f64, step: f64, unit: AxisUnit) -> Result<Grid> {
+        for (name, v) in [("from", from), ("to", to), ("step", step)] {
+            crate::error::finite(name, v)?;
+        }
+        crate::error::positive("step", step, "step")?;
+        let lo_ok = |v: f64| v > 0.0;
+        if !lo_ok(from) || !lo_ok(to) {
+            return Err(Error::new(ErrorKind::NotPositive, "from", "range ends must be positive"));
+        }
+        let span = (to - from).abs();
+        let count = (span / step * (1.0 + 1e-12)).floor() as usize + 1;
+        if count > MAX_GRID_POINTS {
+            return Err(Error::new(
+                ErrorKind::TooLarge,
+                "step",
+                format!("{count} points; the limit is {MAX_GRID_POINTS}"),
+            ));
+        }
+        let dir = if to >= from { 1.0 } else { -1.0 };
+        let wavenumber_cm1 = (0..count).map(|i| unit.to_wavenumber(from + dir * step * i as f64)).collect();
+        Ok(Grid { wavenumber_cm1 })
+    }
+
+    /// `count` points evenly spaced in `unit` between two ends.
+    pub fn linspace(from: f64, to: f64, count: usize, unit: AxisUnit) -> Result<Grid> {
+        if !(2..=MAX_GRID_POINTS).contains(&count) {
+            return Err(Error::new(
+                ErrorKind::OutOfRange,
+                "points",
+                format!("number of points must lie in 2..{MAX_GRID_POINTS} (got {count})"),
+            ));
+        }
+        if !(from.is_finite() && to.is_finite() && from > 0.0 && to > 0.0) {
+            return Err(Error::new(ErrorKind::OutOfRange, "range", "range ends must be positive numbers"));
+        }
+        let d = (to - from) / (count - 1) as f64;
+        Ok(Grid { wavenumber_cm1: (0..count).map(|i| unit.to_wavenumber(from + d * i as f64)).collect() })
+    }
+
+    /// A wavelength range that shows every band of the model with room on
+    /// either side (at least 180-650 nm, the usual CD and polarimetry span).
+    pub fn default_range_nm(model: &Model) -> (f64, f64) {
+        let mut lo = 180.0_f64;
+        let mut hi = 650.0_f64;
+        for b in &model.bands {
+            let nm = AxisUnit::Nanometre.from_wavenumber(b.lineshape.center());
+            lo = lo.min(0.9 * nm);
+            hi = hi.max(1.25 * nm);
+        }
+        ((lo / 10.0).floor() * 10.0, (hi / 10.0).ceil() * 10.0)
+    }
+}
+
+/// One band's share of the spectra (the sum over bands gives the total).
+#[derive(Debug, Clone, PartialEq)]
+pub struct BandContribution {
+    pub name: String,
+    pub delta_n: Vec<f64>,
+    pub delta_epsilon: Vec<f64>,
+    pub epsilon: Vec<f64>,
+    pub rotation_deg: Vec<f64>,
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct Spectra {
+    pub context: SampleContext,
+    pub wavenumber_cm1: Vec<f64>,
+    pub n_solvent: Vec<f64>,
+    pub n_left: Vec<f64>,
+    pub n_right: Vec<f64>,
+    pub k_left: Vec<f64>,
+    pub k_right: Vec<f64>,
+    pub delta_n: Vec<f64>,
+    pub delta_k: Vec<f64>,
+    /// Observed rotation, degrees (positive: dextrorotatory).
+    pub rotation_deg: Vec<f64>,
+    /// Ellipticity as CD instruments report it, mdeg.
+    pub ellipticity_mdeg: Vec<f64>,
+    pub delta_epsilon: Vec<f64>,
+    /// Mean molar absorption coefficient (e_L + e_R)/2, M^-1 cm^-1.
+    pub epsilon: Vec<f64>,
+    pub g_factor: Vec<f64>,
+    pub bands: Vec<BandContribution>,
+}
+
+/// Evaluates the model on a grid of wavenumbers (cm^-1).
+pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
+    if wavenumber_cm1.len() > MAX_GRID_POINTS {
+        return Err(Error::new(
+            ErrorKind::TooLarge,
+            "grid",
+            format!("{} points; the limit is {MAX_GRID_POINTS}", wavenumber_cm1.len()),
+        ));
+    }
+    if let Some(bad) = wavenumber_cm1.iter().find(|nu| !(nu.is_finite() && **nu > 0.0)) {
+        return Err(Error::new(ErrorKind::OutOfRange, "grid", format!("wavenumbers must be positive (got {bad})")));
+    }
+    let n = wavenumber_cm1.len();
+    let ctx = model.sample.context;
+    let c = ctx.concentration_mol_per_l;
+    // Dn + i Dk = ln10 c / (4 pi C_R) sum R s;  dn + i k = ln10 c / (4 pi C_D) sum D s.
+    let chiral_scale = LN_10 * c / (4.0 * PI * ROTATORY_CONSTANT);
+    let mean_scale = LN_10 * c / (4.0 * PI * DIPOLE_CONSTANT);
+
+    let mut n_solvent = Vec::with_capacity(n);
+    for &nu in wavenumber_cm1 {
+        let ns = model.sample.solvent.index(nu);
+        if !ns.is_finite() {
+            return Err(Error::new(
+                ErrorKind::OutOfRange,
+                "sample.solvent",
+                format!(
+                    "the solvent series has no real index at {:.1} nm (outside its range)",
+                    AxisUnit::Nanometre.from_wavenumber(nu)
+                ),
+            ));
+        }
+        n_solvent.push(ns);
+    }
+
+    let mut delta_n = vec![0.0; n];
+    let mut delta_k = vec![0.0; n];
+    let mut dn_mean = vec![0.0; n];
+    let mut k_mean = vec![0.0; n];
+    let mut contributions = Vec::with_capacity(model.bands.len());
+    for band in &model.bands {
+        let r = chiral_scale * band.rotatory_strength_esu2_cm2;
+        let d = mean_scale * band.dipole_strength_esu2_cm2;
+        let mut contribution = BandContribution {
+            name: band.name.clone(),
+            delta_n: Vec::with_capacity(n),
+            delta_epsilon: Vec::with_capacity(n),
+            epsilon: Vec::with_capacity(n),
+            rotation_deg: Vec::with_capacity(n),
+        };
+        for (i, &nu) in wavenumber_cm1.iter().enumerate() {
+            let s = band.lineshape.value(nu);
+            let (dn, dk) = (r * s.re, r * s.im);
+            delta_n[i] += dn;
+            delta_k[i] += dk;
+            dn_mean[i] += d * s.re;
+            k_mean[i] += d * s.im;
+            contribution.delta_n.push(dn);
+            contribution.delta_epsilon.push(epsilon_from_k(dk, nu, c));
+            contribution.epsilon.push(epsilon_from_k(d * s.im, nu, c));
+            contribution.rotation_deg.push(units::degrees_from_delta_n(dn, nu, ctx.path_length_cm));
+        }
+        contributions.push(contribution);
+    }
+
+    let mut s = Spectra {
+        context: ctx,
+        wavenumber_cm1: wavenumber_cm1.to_vec(),
+        n_left: Vec::with_capacity(n),
+        n_right: Vec::with_capacity(n),
+        k_left: Vec::with_capacity(n),
+        k_right: Vec::with_capacity(n),
+        rotation_deg: Vec::with_capacity(n),
+        ellipticity_mdeg: Vec::with_capacity(n),
+        delta_epsilon: Vec::with_capacity(n),
+        epsilon: Vec::with_capacity(n),
+        g_factor: Vec::with_capacity(n),
+        n_solvent,
+        delta_n,
+        delta_k,
+        bands: contributions,
+    };
+    let cl = c * ctx.path_length_cm;
+    for i in 0..n {
+        let nu = s.wavenumber_cm1[i];
+        let mean = s.n_solvent[i] + dn_mean[i];
+        s.n_left.push(mean + s.delta_n[i] / 2.0);
+        s.n_right.push(mean - s.delta_n[i] / 2.0);
+        s.k_left.push(k_mean[i] + s.delta_k[i] / 2.0);
+        s.k_right.push(k_mean[i] - s.delta_k[i] / 2.0);
+        s.rotation_deg.push(units::degrees_from_delta_n(s.delta_n[i], nu, ctx.path_length_cm));
+        let de = epsilon_from_k(s.delta_k[i], nu, c);
+        let e = epsilon_from_k(k_mean[i], nu, c);
+        s.delta_epsilon.push(de);
+        s.epsilon.push(e);
+        s.ellipticity_mdeg.push(MDEG_PER_DEG * ELLIPTICITY_DEG_PER_DELTA_A * de * cl);
+        s.g_factor.push(de / e);
+    }
+    Ok(s)
+}
+
+/// e = 4 pi nu k / (ln10 c), M^-1 cm^-1 (likewise De from Dk).
+pub fn epsilon_from_k(k: f64, nu: f64, concentration_mol_per_l: f64) -> f64 {
+    4.0 * PI * nu * k / (LN_10 * concentration_mol_per_l)
+}
+
+impl Spectra {
+    pub fn len(&self) -> usize {
+        self.wavenumber_cm1.len()
+    }
+
+    pub fn is_empty(&self) -> bool {
+        self.wavenumber_cm1.is_empty()
+    }
+
+    /// Specific rotation [alpha] at each point, when the molar mass is known.
+    pub fn specific_rotation(&self) -> Option<Vec<f64>> {
+        self.context.molar_mass_g_per_mol?;
+        self.ord_in(OrdUnit::SpecificRotation).ok()
+    }
+
+    /// Molar rotation [Phi] at each point.
+    pub fn molar_rotation(&self) -> Vec<f64> {
+        self.rotation_deg.iter().map(|p| units::molar_rotation_from_degrees(*p, &self.context)).collect()
+    }
+
+    /// The total CD in a chosen unit.
+    pub fn cd_in(&self, unit: CdUnit) -> std::result::Result<Vec<f64>, UnitError> {
+        self.delta_epsilon
+            .iter()
+            .zip(&self.epsilon)
+            .map(|(de, e)| unit.from_delta_epsilon(*de, *e, &self.context))
+            .collect()
+    }
+
+    /// One band's CD in a chosen unit (g uses the band's own e).
+    pub fn band_cd_in(&self, band: usize, unit: CdUnit) -> std::result::Result<Vec<f64>, UnitError> {
+        let b = &self.bands[band];
+        b.delta_epsilon
+            .iter()
+            .zip(&b.epsilon)
+            .map(|(de, e)| unit.from_delta_epsilon(*de, *e, &self.context))
+            .collect()
+    }
+
+    /// The total rotation in a chosen unit.
+    pub fn ord_in(&self, unit: OrdUnit) -> std::result::Result<Vec<f64>, UnitError> {
+        self.rotation_deg
+            .iter()
+            .zip(&self.wavenumber_cm1)
+            .map(|(p, nu)| unit.from_degrees(*p, *nu, &self.context))
+            .collect()
+    }
+
+    pub fn band_ord_in(&self, band: usize, unit: OrdUnit) -> std::result::Result<Vec<f64>, UnitError> {
+        self.bands[band]
+            .rotation_deg
+            .iter()
+            .zip(&self.wavenumber_cm1)
+            .map(|(p, nu)| unit.from_degrees(*p, *nu, &self.context))
+            .collect()
+    }
+}

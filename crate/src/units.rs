@@ -1,0 +1,383 @@
+//! The one home of physical constants and unit factors.
+//!
+//! Everything is CGS-Gaussian, the system in which rotatory and dipole
+//! strengths are quoted by the trade. Constants are the exact SI-2019 defining
+//! values (CODATA) written in CGS; the derived factors (C_R, C_D, 32.98 ...)
+//! are computed from them here and nowhere else.
+
+use std::f64::consts::{LN_10, PI};
+
+/// Planck constant, erg s (exact, SI 2019 / CODATA).
+pub const PLANCK_ERG_S: f64 = 6.626_070_15e-27;
+/// Speed of light, cm/s (exact).
+pub const LIGHT_CM_PER_S: f64 = 2.997_924_58e10;
+/// Avogadro constant, 1/mol (exact).
+pub const AVOGADRO_PER_MOL: f64 = 6.022_140_76e23;
+/// Electron volt, erg (exact).
+pub const ELECTRON_VOLT_ERG: f64 = 1.602_176_634e-12;
+
+/// cm^3 per litre: concentrations are mol/L, CGS volumes are cm^3.
+pub const CM3_PER_LITRE: f64 = 1000.0;
+/// Nanometres per centimetre: lambda[nm] = NM_PER_CM / nu[cm^-1].
+pub const NM_PER_CM: f64 = 1e7;
+/// Micrometres per centimetre (Sellmeier and Cauchy series use um).
+pub const UM_PER_CM: f64 = 1e4;
+/// One "1e-40 cgs" unit of rotatory strength, in esu^2 cm^2.
+pub const ESU2_CM2_PER_ROTATORY_UNIT: f64 = 1e-40;
+/// One debye^2, in esu^2 cm^2.
+pub const ESU2_CM2_PER_DEBYE2: f64 = 1e-36;
+/// Millidegrees per degree.
+pub const MDEG_PER_DEG: f64 = 1000.0;
+/// Centimetres per decimetre (polarimeter tubes are specified in dm).
+pub const CM_PER_DM: f64 = 10.0;
+/// Millimetres per centimetre.
+pub const MM_PER_CM: f64 = 10.0;
+
+/// Degrees per radian.
+pub const DEG_PER_RAD: f64 = 180.0 / PI;
+
+/// Rotatory-strength constant C_R in R = C_R * int (De/nu) dnu, esu^2 cm^2
+/// per (M^-1 cm^-1): 3 h c ln10 * 1000 / (32 pi^3 N_A), about 2.296e-39.
+pub const ROTATORY_CONSTANT: f64 =
+    3.0 * PLANCK_ERG_S * LIGHT_CM_PER_S * LN_10 * CM3_PER_LITRE / (32.0 * PI * PI * PI * AVOGADRO_PER_MOL);
+
+/// Dipole-strength constant C_D = 4 C_R in D = C_D * int (e/nu) dnu.
+pub const DIPOLE_CONSTANT: f64 = 4.0 * ROTATORY_CONSTANT;
+
+/// Ellipticity in degrees per unit DA: (ln10/4)(180/pi), about 32.98.
+pub const ELLIPTICITY_DEG_PER_DELTA_A: f64 = LN_10 / 4.0 * DEG_PER_RAD;
+
+/// Molar ellipticity [theta] (deg cm^2 dmol^-1) per De (M^-1 cm^-1): the
+/// factor 100 turns mol/L * cm into dmol/cm^2; about 3298.2.
+pub const MOLAR_ELLIPTICITY_PER_DELTA_EPSILON: f64 = 100.0 * ELLIPTICITY_DEG_PER_DELTA_A;
+
+/// Oscillator strength per integrated absorption: f = F * int e dnu with
+/// F = 1000 ln10 m_e c^2 / (pi N_A e^2), about 4.319e-9 (cgs).
+pub fn oscillator_strength_factor() -> f64 {
+    // Electron mass (g) and elementary charge (esu): CODATA 2018.
+    const ELECTRON_MASS_G: f64 = 9.109_383_7015e-28;
+    const ELEMENTARY_CHARGE_ESU: f64 = 4.803_204_712_570_263e-10;
+    CM3_PER_LITRE * LN_10 * ELECTRON_MASS_G * LIGHT_CM_PER_S * LIGHT_CM_PER_S
+        / (PI * AVOGADRO_PER_MOL * ELEMENTARY_CHARGE_ESU * ELEMENTARY_CHARGE_ESU)
+}
+
+/// eV per cm^-1: h c / (1 eV), about 1.2398e-4.
+pub const EV_PER_WAVENUMBER: f64 = PLANCK_ERG_S * LIGHT_CM_PER_S / ELECTRON_VOLT_ERG;
+
+/// The spectral axis units a user may enter and view.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum AxisUnit {
+    Nanometre,
+    Wavenumber,
+    ElectronVolt,
+}
+
+impl AxisUnit {
+    pub fn parse(s: &str) -> Option<AxisUnit> {
+        match s {
+            "nm" => Some(AxisUnit::Nanometre),
+            "cm-1" | "cm^-1" | "cm1" => Some(AxisUnit::Wavenumber),
+            "ev" | "eV" => Some(AxisUnit::ElectronVolt),
+            _ => None,
+        }
+    }
+
+    pub fn label(self) -> &'static str {
+        match self {
+            AxisUnit::Nanometre => "nm",
+            AxisUnit::Wavenumber => "cm⁻¹",
+            AxisUnit::ElectronVolt => "eV",
+        }
+    }
+
+    /// Converts a position on this axis to wavenumber (cm^-1).
+    pub fn to_wavenumber(self, value: f64) -> f64 {
+        match self {
+            AxisUnit::Nanometre => NM_PER_CM / value,
+            AxisUnit::Wavenumber => value,
+            AxisUnit::ElectronVolt => value / EV_PER_WAVENUMBER,
+        }
+    }
+
+    /// Converts a wavenumber (cm^-1) to a position on this axis.
+    pub fn from_wavenumber(self, nu: f64) -> f64 {
+        match self {
+            AxisUnit::Nanometre => NM_PER_CM / nu,
+            AxisUnit::Wavenumber => nu,
+            AxisUnit::ElectronVolt => nu * EV_PER_WAVENUMBER,
+        }
+    }
+
+    /// Converts a band width (FWHM) given at a band centre `center_nu` on this
+    /// axis into cm^-1. Widths in nm depend on where the band is: a width w nm
+    /// centred at lambda spans 1e7/(lambda - w/2) - 1e7/(lambda + w/2).
+    pub fn width_to_wavenumber(self, width: f64, center_nu: f64) -> f64 {
+        match self {
+            AxisUnit::Nanometre => {
+                let lambda = NM_PER_CM / center_nu;
+                NM_PER_CM / (lambda - width / 2.0) - NM_PER_CM / (lambda + width / 2.0)
+            }
+            AxisUnit::Wavenumber => width,
+            AxisUnit::ElectronVolt => width / EV_PER_WAVENUMBER,
+        }
+    }
+
+    /// Inverse of [`AxisUnit::width_to_wavenumber`].
+    pub fn width_from_wavenumber(self, width_cm1: f64, center_nu: f64) -> f64 {
+        match self {
+            AxisUnit::Nanometre => {
+                // Solve 1e7/(L - w/2) - 1e7/(L + w/2) = W for w (positive root).
+                let lambda = NM_PER_CM / center_nu;
+                let a = NM_PER_CM / width_cm1;
+                // w^2/4 + a w - L^2 = 0  ->  w = 2(-a + sqrt(a^2 + L^2))
+                2.0 * (-a + (a * a + lambda * lambda).sqrt())
+            }
+            AxisUnit::Wavenumber => width_cm1,
+            AxisUnit::ElectronVolt => width_cm1 * EV_PER_WAVENUMBER,
+        }
+    }
+}
+
+/// What a CD or ORD unit conversion needs to know about the sample and point.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct SampleContext {
+    pub concentration_mol_per_l: f64,
+    pub path_length_cm: f64,
+    pub molar_mass_g_per_mol: Option<f64>,
+    pub mean_residue_weight_g_per_mol: Option<f64>,
+}
+
+impl SampleContext {
+    /// Mass concentration in g/mL (needs the molar mass).
+    pub fn mass_concentration_g_per_ml(&self) -> Option<f64> {
+        self.molar_mass_g_per_mol
+            .map(|m| self.concentration_mol_per_l * m / CM3_PER_LITRE)
+    }
+}
+
+/// The circular dichroism units of the trade.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum CdUnit {
+    /// Ellipticity of the sample as instruments report it, mdeg.
+    Millidegrees,
+    /// De = e_L - e_R, M^-1 cm^-1.
+    DeltaEpsilon,
+    /// Molar ellipticity [theta], deg cm^2 dmol^-1.
+    MolarEllipticity,
+    /// Mean residue ellipticity, deg cm^2 dmol^-1 (per residue).
+    MeanResidueEllipticity,
+    /// DA = A_L - A_R, dimensionless.
+    DeltaAbsorbance,
+    /// Dissymmetry g = De / e.
+    Dissymmetry,
+}
+
+/// Why a unit conversion cannot be done.
+#[derive(Debug, Clone, PartialEq)]
+pub struct UnitError(pub String);
+
+impl std::fmt::Display for UnitError {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(&self.0)
+    }
+}
+
+impl CdUnit {
+    pub const ALL: [CdUnit; 6] = [
+        CdUnit::Millidegrees,
+        CdUnit::DeltaEpsilon,
+        CdUnit::MolarEllipticity,
+        CdUnit::MeanResidueEllipticity,
+        CdUnit::DeltaAbsorbance,
+        CdUnit::Dissymmetry,
+    ];
+
+    /// Short machine name used in documents, links and the CLI.
+    pub fn key(self) -> &'static str {
+        match self {
+            CdUnit::Millidegrees => "mdeg",
+            CdUnit::DeltaEpsilon => "delta_epsilon",
+            CdUnit::MolarEllipticity => "molar_ellipticity",
+            CdUnit::MeanResidueEllipticity => "mean_residue_ellipticity",
+            CdUnit::DeltaAbsorbance => "delta_a",
+            CdUnit::Dissymmetry => "g",
+        }
+    }
+
+    pub fn parse(key: &str) -> Option<CdUnit> {
+        CdUnit::ALL.into_iter().find(|u| u.key() == key)
+    }
+
+    /// Axis label as the trade typesets it.
+    pub fn label(self) -> &'static str {
+        match self {
+            CdUnit::Millidegrees => "θ / mdeg",
+            CdUnit::DeltaEpsilon => "Δε / M⁻¹ cm⁻¹",
+            CdUnit::MolarEllipticity => "[θ] / deg cm² dmol⁻¹",
+            CdUnit::MeanResidueEllipticity => "[θ]MRW / deg cm² dmol⁻¹",
+            CdUnit::DeltaAbsorbance => "ΔA",
+            CdUnit::Dissymmetry => "g = Δε/ε",
+        }
+    }
+
+    /// Converts De (with e at the same point, for g) into this unit.
+    pub fn from_delta_epsilon(self, de: f64, epsilon: f64, s: &SampleContext) -> Result<f64, UnitError> {
+        let delta_a = de * s.concentration_mol_per_l * s.path_length_cm;
+        Ok(match self {
+            CdUnit::Millidegrees => MDEG_PER_DEG * ELLIPTICITY_DEG_PER_DELTA_A * delta_a,
+            CdUnit::DeltaEpsilon => de,
+            CdUnit::MolarEllipticity => MOLAR_ELLIPTICITY_PER_DELTA_EPSILON * de,
+            CdUnit::MeanResidueEllipticity => {
+                let factor = mean_residue_factor(s)?;
+                ELLIPTICITY_DEG_PER_DELTA_A * delta_a * factor
+            }
+            CdUnit::DeltaAbsorbance => delta_a,
+            CdUnit::Dissymmetry => de / epsilon,
+        })
+    }
+
+    /// Converts a value in this unit back to De.
+    pub fn to_delta_epsilon(self, value: f64, epsilon: f64, s: &SampleContext) -> Result<f64, UnitError> {
+        let cl = s.concentration_mol_per_l * s.path_length_cm;
+        Ok(match self {
+            CdUnit::Millidegrees => value / (MDEG_PER_DEG * ELLIPTICITY_DEG_PER_DELTA_A) / cl,
+            CdUnit::DeltaEpsilon => value,
+            CdUnit::MolarEllipticity => value / MOLAR_ELLIPTICITY_PER_DELTA_EPSILON,
+            CdUnit::MeanResidueEllipticity => {
+                let factor = mean_residue_factor(s)?;
+                value / factor / ELLIPTICITY_DEG_PER_DELTA_A / cl
+            }
+            CdUnit::DeltaAbsorbance => value / cl,
+            CdUnit::Dissymmetry => value * epsilon,
+        })
+    }
+}
+
+/// MRE = theta_deg * MRW / (10 l_cm c_mg_per_ml); returns MRW / (10 l c).
+fn mean_residue_factor(s: &SampleContext) -> Result<f64, UnitError> {
+    let mrw = s.mean_residue_weight_g_per_mol.ok_or_else(|| {
+        UnitError("mean residue ellipticity needs sample.mean_residue_weight_g_per_mol".into())
+    })?;
+    let c_g_per_ml = s.mass_concentration_g_per_ml().ok_or_else(|| {
+        UnitError("mean residue ellipticity needs sample.molar_mass_g_per_mol".into())
+    })?;
+    let c_mg_per_ml = c_g_per_ml * 1000.0;
+    Ok(mrw / (10.0 * s.path_length_cm * c_mg_per_ml))
+}
+
+/// The optical rotation units of the trade.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum OrdUnit {
+    /// Observed rotation of the sample, degrees.
+    Degrees,
+    /// Specific rotation [alpha], deg dm^-1 (g/mL)^-1.
+    SpecificRotation,
+    /// Molar rotation [Phi] = [alpha] M / 100, deg cm^2 dmol^-1.
+    MolarRotation,
+    /// Circular birefringence Dn = n_L - n_R.
+    DeltaN,
+}
+
+impl OrdUnit {
+    pub const ALL: [OrdUnit; 4] =
+        [OrdUnit::Degrees, OrdUnit::SpecificRotation, OrdUnit::MolarRotation, OrdUnit::DeltaN];
+
+    pub fn key(self) -> &'static str {
+        match self {
+            OrdUnit::Degrees => "deg",
+            OrdUnit::SpecificRotation => "specific_rotation",
+            OrdUnit::MolarRotation => "molar_rotation",
+            OrdUnit::DeltaN => "delta_n",
+        }
+    }
+
+    pub fn parse(key: &str) -> Option<OrdUnit> {
+        OrdUnit::ALL.into_iter().find(|u| u.key() == key)
+    }
+
+    pub fn label(self) -> &'static str {
+        match self {
+            OrdUnit::Degrees => "φ / deg",
+            OrdUnit::SpecificRotation => "[α] / deg dm⁻¹ (g/mL)⁻¹",
+            OrdUnit::MolarRotation => "[Φ] / deg cm² dmol⁻¹",
+            OrdUnit::DeltaN => "Δn = n_L − n_R",
+        }
+    }
+
+    /// Converts a rotation in degrees (observed, at wavenumber `nu`) into this unit.
+    pub fn from_degrees(self, phi_deg: f64, nu: f64, s: &SampleContext) -> Result<f64, UnitError> {
+        Ok(match self {
+            OrdUnit::Degrees => phi_deg,
+            OrdUnit::SpecificRotation => specific_rotation(phi_deg, s)?,
+            OrdUnit::MolarRotation => molar_rotation_from_degrees(phi_deg, s),
+            OrdUnit::DeltaN => delta_n_from_degrees(phi_deg, nu, s.path_length_cm),
+        })
+    }
+
+    /// Converts a value in this unit back to a rotation in degrees.
+    pub fn to_degrees(self, value: f64, nu: f64, s: &SampleContext) -> Result<f64, UnitError> {
+        Ok(match self {
+            OrdUnit::Degrees => value,
+            OrdUnit::SpecificRotation => value / specific_rotation(1.0, s)?,
+            OrdUnit::MolarRotation => value / molar_rotation_from_degrees(1.0, s),
+            OrdUnit::DeltaN => degrees_from_delta_n(value, nu, s.path_length_cm),
+        })
+    }
+}
+
+/// phi[deg] = (180/pi) * pi * l * Dn / lambda = 180 l nu Dn.
+pub fn degrees_from_delta_n(delta_n: f64, nu: f64, path_length_cm: f64) -> f64 {
+    DEG_PER_RAD * PI * path_length_cm * nu * delta_n
+}
+
+pub fn delta_n_from_degrees(phi_deg: f64, nu: f64, path_length_cm: f64) -> f64 {
+    phi_deg / (DEG_PER_RAD * PI * path_length_cm * nu)
+}
+
+/// [alpha] = 100 phi / (l_dm c_g_per_100ml) = phi / (l_dm c_g_per_ml).
+pub fn specific_rotation(phi_deg: f64, s: &SampleContext) -> Result<f64, UnitError> {
+    let c = s
+        .mass_concentration_g_per_ml()
+        .ok_or_else(|| UnitError("specific rotation needs sample.molar_mass_g_per_mol".into()))?;
+    Ok(phi_deg / (s.path_length_cm / CM_PER_DM * c))
+}
+
+/// [Phi] = [alpha] M / 100 = 100 phi / (l_cm c_mol_per_l); needs no molar mass.
+pub fn molar_rotation_from_degrees(phi_deg: f64, s: &SampleContext) -> f64 {
+    100.0 * phi_deg / (s.path_length_cm * s.concentration_mol_per_l)
+}
+
+/// Converts the 1e-40 cgs unit of rotatory strength to esu^2 cm^2.
+pub fn rotatory_strength_esu2_cm2(r_1e40: f64) -> f64 {
+    r_1e40 * ESU2_CM2_PER_ROTATORY_UNIT
+}
+
+/// Converts debye^2 to esu^2 cm^2.
+pub fn dipole_strength_esu2_cm2(d_debye2: f64) -> f64 {
+    d_debye2 * ESU2_CM2_PER_DEBYE2
+}
+
+/// Concentration units offered for entry; all convert to mol/L.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum ConcentrationUnit {
+    MolPerLitre,
+    MillimolPerLitre,
+    MgPerMl,
+    GramPer100Ml,
+}
+
+impl ConcentrationUnit {
+    pub fn to_mol_per_l(self, value: f64, molar_mass: Option<f64>) -> Result<f64, UnitError> {
+        let needs_mass = || UnitError("a mass concentration needs sample.molar_mass_g_per_mol".into());
+        Ok(match self {
+            ConcentrationUnit::MolPerLitre => value,
+            ConcentrationUnit::MillimolPerLitre => value / 1000.0,
+            ConcentrationUnit::MgPerMl => value / molar_mass.ok_or_else(needs_mass)?,
+            ConcentrationUnit::GramPer100Ml => value * 10.0 / molar_mass.ok_or_else(needs_mass)?,
+        })
+    }
+
+    pub fn from_mol_per_l(self, c: f64, molar_mass: Option<f64>) -> Result<f64, UnitError> {
+        Ok(c / self.to_mol_per_l(1.0, molar_mass)?)
+    }
+}

@@ -7,8 +7,10 @@
 
 pub mod document;
 pub mod error;
+pub mod figures;
 pub mod kk;
 pub mod lines;
+pub mod link;
 pub mod lineshape;
 pub mod model;
 pub mod solvent;
@@ -18,6 +20,9 @@ pub mod units;
 
 #[cfg(not(target_arch = "wasm32"))]
 pub mod cli;
+
+#[cfg(target_arch = "wasm32")]
+pub mod wasm;
 
 pub use document::Document;
 pub use error::{Error, ErrorKind, Result};

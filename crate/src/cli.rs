@@ -29,13 +29,13 @@ enum Verb {
         /// The model document (JSON).
         doc: PathBuf,
         /// First grid point (in --unit); default: a range showing every band.
-        #[arg(long)]
+        #[arg(long, allow_negative_numbers = true)]
         from: Option<f64>,
         /// Last grid point (in --unit).
-        #[arg(long)]
+        #[arg(long, allow_negative_numbers = true)]
         to: Option<f64>,
         /// Grid step (in --unit).
-        #[arg(long)]
+        #[arg(long, allow_negative_numbers = true)]
         step: Option<f64>,
         /// Unit of --from, --to and --step: nm, cm-1 or ev.
         #[arg(long, default_value = "nm")]

@@ -4,7 +4,8 @@
 use crate::error::Result;
 use crate::model::Model;
 use crate::spectra::{evaluate, Spectra};
-use crate::units::{AxisUnit, OrdUnit};
+use crate::units::{AxisUnit, OrdUnit, SampleContext, DEG_PER_RAD, ESU2_CM2_PER_ROTATORY_UNIT, ROTATORY_CONSTANT};
+use std::f64::consts::{LN_10, PI};
 
 /// A lamp line: name and wavelength in nm as polarimeters quote it (air
 /// wavelengths, used as given: no air-to-vacuum correction is applied).
@@ -77,5 +78,18 @@ impl DrudeTerm {
 
     pub fn rotation(&self, lambda_nm: f64) -> f64 {
         self.amplitude_nm2 / (lambda_nm * lambda_nm - self.lambda0_nm * self.lambda0_nm)
+    }
+
+    /// The rotatory strength (1e-40 cgs) of a band at `lambda0_nm` whose
+    /// far-from-band rotation, in degrees for this sample, is this term.
+    /// From the model's Dn = ln10 c R/(4 pi C_R) (2/pi) nu/(nu_j^2 - nu^2) and
+    /// phi = 180 l nu Dn:  phi = [180 l ln10 c R / (2 pi^2 C_R)] lambda_j^2 / (lambda^2 - lambda_j^2).
+    pub fn rotatory_strength_1e40(&self, sample: &SampleContext) -> f64 {
+        let per_r = DEG_PER_RAD * PI * sample.path_length_cm * LN_10 * sample.concentration_mol_per_l
+            / (4.0 * PI * ROTATORY_CONSTANT)
+            * (2.0 / PI)
+            * self.lambda0_nm
+            * self.lambda0_nm;
+        self.amplitude_nm2 / per_r / ESU2_CM2_PER_ROTATORY_UNIT
     }
 }

@@ -1,0 +1,95 @@
+//! The command line as a script would use it: output format, exit codes and
+//! one-line messages for bad input (architecture.md).
+
+use std::path::PathBuf;
+use std::process::{Command, Output};
+
+fn chiroptic(args: &[&str]) -> Output {
+    Command::new(env!("CARGO_BIN_EXE_chiroptic")).args(args).output().expect("binary runs")
+}
+
+fn demo() -> String {
+    format!("{}/../fixtures/demo/demo.json", env!("CARGO_MANIFEST_DIR"))
+}
+
+fn temp_doc(name: &str, text: &str) -> PathBuf {
+    let dir = std::env::temp_dir().join(format!("chiroptic-cli-test-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let p = dir.join(name);
+    std::fs::write(&p, text).unwrap();
+    p
+}
+
+#[test]
+fn eval_writes_one_row_per_grid_point_with_unit_headers() {
+    let out = chiroptic(&["eval", &demo(), "--from", "200", "--to", "400", "--step", "0.5"]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let text = String::from_utf8(out.stdout).unwrap();
+    let mut lines = text.lines();
+    let header: Vec<&str> = lines.next().unwrap().split(',').collect();
+    for col in ["wavelength_nm", "wavenumber_cm1", "n_L", "n_R", "k_L", "k_R", "delta_n", "delta_k", "rotation_deg",
+        "specific_rotation_deg_dm-1_(g/mL)-1", "ellipticity_mdeg", "delta_epsilon_M-1_cm-1", "epsilon_M-1_cm-1", "g_factor"]
+    {
+        assert!(header.contains(&col), "missing column {col}");
+    }
+    let rows: Vec<Vec<f64>> = lines.map(|l| l.split(',').map(|c| c.parse().unwrap()).collect()).collect();
+    assert_eq!(rows.len(), 401);
+    assert_eq!(rows[0][0], 200.0);
+    assert!((rows[400][0] - 400.0).abs() < 1e-9);
+    assert!(rows.iter().all(|r| r.len() == header.len()));
+    // wavelength and wavenumber agree: nu = 1e7 / lambda.
+    assert!(rows.iter().all(|r| (r[0] * r[1] - 1e7).abs() < 1e-6));
+}
+
+#[test]
+fn eval_accepts_wavenumber_and_ev_grids() {
+    for (unit, from, to, step, rows) in [("cm-1", "30000", "40000", "100", 101), ("ev", "4", "6", "0.05", 41)] {
+        let out = chiroptic(&["eval", &demo(), "--from", from, "--to", to, "--step", step, "--unit", unit]);
+        assert!(out.status.success(), "{unit}: {}", String::from_utf8_lossy(&out.stderr));
+        assert_eq!(String::from_utf8(out.stdout).unwrap().lines().count(), rows + 1, "{unit}");
+    }
+}
+
+#[test]
+fn lines_lists_every_standard_lamp_line() {
+    let out = chiroptic(&["lines", &demo()]);
+    assert!(out.status.success());
+    let text = String::from_utf8(out.stdout).unwrap();
+    for name in ["Na D", "Hg 546", "Hg 436", "Hg 405", "Hg 365"] {
+        assert!(text.contains(name), "missing {name}");
+    }
+    // [alpha] = phi / (l_dm c_g_per_ml) for the demo sample (0.5 mM, M 312.4, 1 cm).
+    let na: Vec<&str> = text.lines().find(|l| l.starts_with("Na D")).unwrap().split(',').collect();
+    let (phi, alpha): (f64, f64) = (na[2].parse().unwrap(), na[3].parse().unwrap());
+    assert!((alpha - phi / (0.1 * 0.0005 * 312.4 / 1000.0)).abs() < 1e-9 * alpha.abs());
+}
+
+fn assert_bad_input(out: &Output, must_name: &[&str]) {
+    assert_eq!(out.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(err.trim_end().lines().count(), 1, "one line: {err}");
+    assert!(!err.contains("panicked"), "{err}");
+    for part in must_name {
+        assert!(err.contains(part), "message must name {part}: {err}");
+    }
+}
+
+#[test]
+fn bad_documents_exit_2_with_one_line_naming_file_and_field() {
+    let text = std::fs::read_to_string(demo()).unwrap().replacen("\"fwhm_cm1\": 2600.0", "\"fwhm_cm1\": -5", 1);
+    let p = temp_doc("negative-width.json", &text);
+    let path = p.to_str().unwrap();
+    assert_bad_input(&chiroptic(&["eval", path]), &["negative-width.json", "bands[0].fwhm_cm1"]);
+    assert_bad_input(&chiroptic(&["lines", path]), &["bands[0].fwhm_cm1"]);
+    let p = temp_doc("broken.json", "{\"chiroptic\": 1, \"sample\": ");
+    assert_bad_input(&chiroptic(&["eval", p.to_str().unwrap()]), &["broken.json", "JSON"]);
+    assert_bad_input(&chiroptic(&["eval", "/nonexistent/model.json"]), &["/nonexistent/model.json"]);
+}
+
+#[test]
+fn bad_grids_exit_2() {
+    assert_bad_input(&chiroptic(&["eval", &demo(), "--from", "200", "--to", "400"]), &["--step"]);
+    assert_bad_input(&chiroptic(&["eval", &demo(), "--from", "200", "--to", "400", "--step", "-1"]), &["step"]);
+    assert_bad_input(&chiroptic(&["eval", &demo(), "--from", "200", "--to", "400", "--step", "1e-9"]), &["limit"]);
+    assert_bad_input(&chiroptic(&["eval", &demo(), "--from", "1", "--to", "2", "--step", "1", "--unit", "furlong"]), &["furlong"]);
+}

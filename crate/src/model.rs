@@ -76,40 +76,32 @@ fn sample_from_doc(s: &SampleDoc) -> Result<Sample> {
 }
 
 fn solvent_from_doc(s: &SolventDoc) -> Result<Solvent> {
-    let given = [s.constant.is_some(), s.cauchy.is_some(), s.sellmeier.is_some()];
-    if given.iter().filter(|g| **g).count() != 1 {
-        return Err(Error::new(
-            ErrorKind::MissingField,
-            "sample.solvent",
-            "give exactly one of \"constant\", \"cauchy\" or \"sellmeier\"",
-        ));
-    }
-    if let Some(n) = s.constant {
-        let n = positive("sample.solvent.constant", n, "refractive index")?;
-        if !(1.0..=4.0).contains(&n) {
-            return Err(Error::new(
-                ErrorKind::OutOfRange,
-                "sample.solvent.constant",
-                format!("refractive index must lie in 1..4 (got {n})"),
-            ));
+    match (s.constant, &s.cauchy, &s.sellmeier) {
+        (Some(n), None, None) => {
+            let n = positive("sample.solvent.constant", n, "refractive index")?;
+            if !(1.0..=4.0).contains(&n) {
+                return Err(Error::new(
+                    ErrorKind::OutOfRange,
+                    "sample.solvent.constant",
+                    format!("refractive index must lie in 1..4 (got {n})"),
+                ));
+            }
+            Ok(Solvent::Constant(n))
         }
-        return Ok(Solvent::Constant(n));
-    }
-    if let Some(c) = &s.cauchy {
-        positive("sample.solvent.cauchy.a", c.a, "Cauchy term a")?;
-        finite("sample.solvent.cauchy.b_um2", c.b_um2)?;
-        finite("sample.solvent.cauchy.c_um4", c.c_um4)?;
-        return Ok(Solvent::Cauchy { a: c.a, b_um2: c.b_um2, c_um4: c.c_um4 });
-    }
-    match &s.sellmeier {
-        Some(SellmeierDoc::Preset(name)) => Solvent::preset(name).ok_or_else(|| {
+        (None, Some(c), None) => {
+            positive("sample.solvent.cauchy.a", c.a, "Cauchy term a")?;
+            finite("sample.solvent.cauchy.b_um2", c.b_um2)?;
+            finite("sample.solvent.cauchy.c_um4", c.c_um4)?;
+            Ok(Solvent::Cauchy { a: c.a, b_um2: c.b_um2, c_um4: c.c_um4 })
+        }
+        (None, None, Some(SellmeierDoc::Preset(name))) => Solvent::preset(name).ok_or_else(|| {
             Error::new(
                 ErrorKind::UnknownName,
                 "sample.solvent.sellmeier",
                 format!("unknown preset \"{name}\" (known: {})", PRESETS.join(", ")),
             )
         }),
-        Some(SellmeierDoc::Coefficients { b, c_um2 }) => {
+        (None, None, Some(SellmeierDoc::Coefficients { b, c_um2 })) => {
             if b.len() != c_um2.len() || b.is_empty() || b.len() > 8 {
                 return Err(Error::new(
                     ErrorKind::OutOfRange,
@@ -123,13 +115,12 @@ fn solvent_from_doc(s: &SolventDoc) -> Result<Solvent> {
             }
             Ok(Solvent::Sellmeier { b: b.clone(), c_um2: c_um2.clone() })
         }
-        None => unreachable_solvent(),
+        _ => Err(Error::new(
+            ErrorKind::MissingField,
+            "sample.solvent",
+            "give exactly one of \"constant\", \"cauchy\" or \"sellmeier\"",
+        )),
     }
-}
-
-// Kept out of line: the count check above guarantees one variant was given.
-fn unreachable_solvent() -> Result<Solvent> {
-    Err(Error::new(ErrorKind::MissingField, "sample.solvent", "no solvent given"))
 }
 
 fn band_from_doc(i: usize, b: &BandDoc) -> Result<Band> {

@@ -4,8 +4,7 @@
 use crate::error::{Error, ErrorKind, Result};
 use crate::model::Model;
 use crate::units::{
-    self, AxisUnit, CdUnit, OrdUnit, SampleContext, UnitError, DIPOLE_CONSTANT, MDEG_PER_DEG,
-    ELLIPTICITY_DEG_PER_DELTA_A, ROTATORY_CONSTANT,
+    self, AxisUnit, CdUnit, OrdUnit, SampleContext, UnitError, DIPOLE_CONSTANT, ROTATORY_CONSTANT,
 };
 use std::f64::consts::{LN_10, PI};
 
@@ -188,7 +187,6 @@ pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
         delta_k,
         bands: contributions,
     };
-    let cl = c * ctx.path_length_cm;
     for i in 0..n {
         let nu = s.wavenumber_cm1[i];
         let mean = s.n_solvent[i] + dn_mean[i];
@@ -201,7 +199,8 @@ pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
         let e = epsilon_from_k(k_mean[i], nu, c);
         s.delta_epsilon.push(de);
         s.epsilon.push(e);
-        s.ellipticity_mdeg.push(MDEG_PER_DEG * ELLIPTICITY_DEG_PER_DELTA_A * de * cl);
+        // mdeg needs no optional sample data, so this conversion cannot fail.
+        s.ellipticity_mdeg.push(CdUnit::Millidegrees.from_delta_epsilon(de, e, &ctx).unwrap_or(f64::NAN));
         s.g_factor.push(de / e);
     }
     Ok(s)

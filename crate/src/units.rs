@@ -55,7 +55,7 @@ pub const MOLAR_ELLIPTICITY_PER_DELTA_EPSILON: f64 = 100.0 * ELLIPTICITY_DEG_PER
 /// F = 1000 ln10 m_e c^2 / (pi N_A e^2), about 4.319e-9 (cgs).
 pub fn oscillator_strength_factor() -> f64 {
     // Electron mass (g) and elementary charge (esu): CODATA 2018.
-    const ELECTRON_MASS_G: f64 = 9.109_383_7015e-28;
+    const ELECTRON_MASS_G: f64 = 9.109_383_701_5e-28;
     const ELEMENTARY_CHARGE_ESU: f64 = 4.803_204_712_570_263e-10;
     CM3_PER_LITRE * LN_10 * ELECTRON_MASS_G * LIGHT_CM_PER_S * LIGHT_CM_PER_S
         / (PI * AVOGADRO_PER_MOL * ELEMENTARY_CHARGE_ESU * ELEMENTARY_CHARGE_ESU)

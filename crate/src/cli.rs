@@ -15,6 +15,9 @@ use std::ffi::OsString;
 use std::io::Write;
 use std::path::{Path, PathBuf};
 
+/// The export and share verbs (render, link, open).
+mod share;
+
 #[derive(Parser)]
 #[command(name = "chiroptic", version, about = "Chiral band models: CD and ORD from n_L and n_R")]
 struct Cli {
@@ -46,6 +49,48 @@ enum Verb {
         /// The model document (JSON).
         doc: PathBuf,
     },
+    /// One plot as SVG, the same figure the page draws.
+    Render {
+        /// The model document (JSON).
+        doc: PathBuf,
+        /// Which plot: cd, ord, abs or index.
+        #[arg(long)]
+        plot: String,
+        /// Unit of the plotted quantity: a CD unit key (mdeg, delta_epsilon,
+        /// molar_ellipticity, mean_residue_ellipticity, delta_a, g) or an ORD
+        /// unit key (deg, specific_rotation, molar_rotation, delta_n);
+        /// default: the document's view, else delta_epsilon / deg.
+        #[arg(long)]
+        unit: Option<String>,
+        /// Spectral axis: nm, cm-1 or ev (default: the document's view, else nm).
+        #[arg(long)]
+        axis: Option<String>,
+        /// Left edge of the plot in --axis units (default: the view's range,
+        /// else a range showing every band).
+        #[arg(long, allow_negative_numbers = true)]
+        from: Option<f64>,
+        /// Right edge of the plot in --axis units.
+        #[arg(long, allow_negative_numbers = true)]
+        to: Option<f64>,
+        /// Width in pixels.
+        #[arg(long, default_value_t = 800)]
+        width: u32,
+        /// Height in pixels.
+        #[arg(long, default_value_t = 500)]
+        height: u32,
+        /// Dark background.
+        #[arg(long)]
+        dark: bool,
+        /// Leave out the per-band contributions.
+        #[arg(long)]
+        no_contributions: bool,
+        /// Leave out the legend.
+        #[arg(long)]
+        no_legend: bool,
+        /// Output file (SVG); "-" writes to standard output.
+        #[arg(short = 'o', long)]
+        output: PathBuf,
+    },
 }
 
 /// A failure: the exit code and the one line to print.
@@ -74,6 +119,21 @@ pub fn run<I: IntoIterator<Item = OsString>>(args: I) -> i32 {
     let result = match cli.verb {
         Verb::Eval { doc, from, to, step, unit } => eval(&doc, from, to, step, &unit, &mut out),
         Verb::Lines { doc } => lines(&doc, &mut out),
+        Verb::Render { doc, plot, unit, axis, from, to, width, height, dark, no_contributions, no_legend, output } => {
+            let options = share::RenderOptions {
+                plot,
+                unit,
+                axis,
+                from,
+                to,
+                width,
+                height,
+                dark,
+                contributions: !no_contributions,
+                legend: !no_legend,
+            };
+            share::render(&doc, &options, &output, &mut out)
+        }
     };
     match result {
         Ok(()) => {

@@ -173,6 +173,9 @@ pub struct PlotRequest<'a> {
     pub highlight: Option<usize>,
     /// A key naming the traces (band names, n_L/n_R/Δn) in the top corner.
     pub legend: bool,
+    /// Backend pixels per CSS pixel (a HiDPI canvas passes devicePixelRatio):
+    /// text and lines scale with it, so the picture looks the same.
+    pub pixel_ratio: f64,
 }
 
 impl<'a> PlotRequest<'a> {
@@ -189,6 +192,7 @@ impl<'a> PlotRequest<'a> {
             dark: false,
             highlight: None,
             legend: false,
+            pixel_ratio: 1.0,
         }
     }
 
@@ -320,7 +324,7 @@ fn ticked(lo: f64, hi: f64, ticks: Vec<f64>) -> TickedAxis {
 }
 
 /// Largest figure drawn, in pixels per side.
-pub const MAX_FIGURE_PIXELS: u32 = 10_000;
+pub const MAX_FIGURE_PIXELS: u32 = 20_000;
 
 fn unit_error(field: &str, e: UnitError) -> Error {
     Error::new(ErrorKind::MissingField, field, e.0)
@@ -568,7 +572,9 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, req: &PlotRequest
     let y2 = secondary_wanted.then(|| value_range(sums.iter().chain(&bands).filter(|t| t.secondary), &visible, Some(0.0)));
 
     let (w, h) = area.dim_in_pixel();
-    let font_px = (f64::from(w.min((f64::from(h) * 1.6) as u32)) / 48.0).clamp(11.0, 18.0);
+    let ratio = if req.pixel_ratio.is_finite() { req.pixel_ratio.clamp(0.25, 8.0) } else { 1.0 };
+    let css_size = (f64::from(w) / ratio).min(f64::from(h) / ratio * 1.6);
+    let font_px = (css_size / 48.0).clamp(11.0, 18.0) * ratio;
     let line_scale = font_px / 13.0;
     let tick_font = ("sans-serif", font_px).into_font().color(&theme.text);
     let desc_font = ("sans-serif", font_px * 1.08).into_font().color(&theme.text);
@@ -606,7 +612,7 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, req: &PlotRequest
     };
 
     area.fill(&theme.background).map_err(draw_error)?;
-    let mut chart = ChartBuilder::on(area)
+    let chart = ChartBuilder::on(area)
         .margin_top((font_px * 0.9) as u32)
         .margin_left((font_px * 0.4) as u32)
         .margin_bottom((font_px * 0.3) as u32)
@@ -619,9 +625,18 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, req: &PlotRequest
         )
         .map_err(draw_error)?;
 
-    let axis_style = ShapeStyle::from(&theme.text).stroke_width(1);
-    let grid_style = ShapeStyle::from(&theme.grid).stroke_width(1);
+    // Every chart gets a secondary coordinate system (one type for the code
+    // below); only the Index plot shows it.
+    let (frame_y2, y2_scale, y2_coord) = match &y2_parts {
+        Some((a, b, _, s, t, _)) => (Some((a / s, b / s)), *s, ticked(*a, *b, t.clone())),
+        None => (None, y_scale, ticked(y_lo * y_scale, y_hi * y_scale, Vec::new())),
+    };
+    let mut chart = chart.set_secondary_coord(ticked(cx0, cx1, Vec::new()), y2_coord);
+    let axis_style = ShapeStyle::from(&theme.text).stroke_width(ratio.round().max(1.0) as u32);
+    let grid_style = ShapeStyle::from(&theme.grid).stroke_width(ratio.round().max(1.0) as u32);
     let y_desc = scaled_label(req.y_label(), y_exp);
+    // The secondary system must exist before the mesh, or the primary mesh
+    // labels the right axis too.
     chart
         .configure_mesh()
         .bold_line_style(grid_style)
@@ -637,13 +652,6 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, req: &PlotRequest
         .draw()
         .map_err(draw_error)?;
 
-    // Every chart gets a secondary coordinate system (one type for the code
-    // below); only the Index plot shows it.
-    let (frame_y2, y2_scale, y2_coord) = match &y2_parts {
-        Some((a, b, _, s, t, _)) => (Some((a / s, b / s)), *s, ticked(*a, *b, t.clone())),
-        None => (None, y_scale, ticked(y_lo * y_scale, y_hi * y_scale, Vec::new())),
-    };
-    let mut chart = chart.set_secondary_coord(ticked(cx0, cx1, Vec::new()), y2_coord);
     if let Some((_, _, e, _, _, step)) = y2_parts {
         let y2_fmt = move |v: &f64| tick_label(*v, step);
         chart
@@ -659,7 +667,7 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, req: &PlotRequest
     }
 
     // Zero lines under everything else.
-    let zero_style = ShapeStyle::from(&theme.muted).stroke_width(1);
+    let zero_style = ShapeStyle::from(&theme.muted).stroke_width(ratio.round().max(1.0) as u32);
     if zero.is_some() && y_lo < 0.0 && y_hi > 0.0 {
         chart
             .draw_series(std::iter::once(PathElement::new(vec![(cx0, 0.0), (cx1, 0.0)], zero_style)))
@@ -729,9 +737,10 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, req: &PlotRequest
         chart
             .configure_series_labels()
             .position(SeriesLabelPosition::UpperRight)
+            .margin((font_px * 0.6) as u32)
             .label_font(tick_font.clone())
             .background_style(theme.background.mix(0.85))
-            .border_style(ShapeStyle::from(&theme.grid).stroke_width(1))
+            .border_style(grid_style)
             .legend_area_size((font_px * 1.8) as u32)
             .draw()
             .map_err(draw_error)?;
@@ -749,24 +758,37 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, req: &PlotRequest
     })
 }
 
+/// Backend pixels per SVG pixel in [`svg`].
+pub const SVG_OVERSAMPLE: u32 = 4;
+
 /// The figure as an SVG document of `width` x `height` pixels.
 pub fn svg(req: &PlotRequest, width: u32, height: u32) -> Result<String> {
     for (name, v) in [("width", width), ("height", height)] {
-        if !(64..=MAX_FIGURE_PIXELS).contains(&v) {
+        if !(64..=MAX_FIGURE_PIXELS / SVG_OVERSAMPLE).contains(&v) {
             return Err(Error::new(
                 ErrorKind::OutOfRange,
                 name,
-                format!("figure {name} must lie in 64..{MAX_FIGURE_PIXELS} pixels (got {v})"),
+                format!("figure {name} must lie in 64..{} pixels (got {v})", MAX_FIGURE_PIXELS / SVG_OVERSAMPLE),
             ));
         }
     }
+    // plotters places everything on whole backend pixels; drawing at
+    // SVG_OVERSAMPLE times the size inside a viewBox of that size keeps the
+    // curves smooth, and the document still declares width x height.
+    let (big_w, big_h) = (width * SVG_OVERSAMPLE, height * SVG_OVERSAMPLE);
     let mut text = String::new();
     {
-        let root = SVGBackend::with_string(&mut text, (width, height)).into_drawing_area();
-        draw(&root, req)?;
+        let root = SVGBackend::with_string(&mut text, (big_w, big_h)).into_drawing_area();
+        let mut big = *req;
+        big.pixel_ratio = req.pixel_ratio * f64::from(SVG_OVERSAMPLE);
+        draw(&root, &big)?;
         root.present().map_err(draw_error)?;
     }
-    Ok(text)
+    let header = format!("<svg width=\"{big_w}\" height=\"{big_h}\"");
+    if !text.starts_with(&header) {
+        return Err(Error::new(ErrorKind::Io, "figure", "unexpected SVG header from the drawing backend"));
+    }
+    Ok(format!("<svg width=\"{width}\" height=\"{height}\"{}", &text[header.len()..]))
 }
 
 /// The plotted values at the grid point nearest to `x` (axis units).

@@ -83,7 +83,7 @@ pub fn render(path: &Path, o: &RenderOptions, output: &Path, out: &mut Vec<u8>) 
         _ => return Err(bad("--from", ErrorKind::MissingField, "give both --from and --to, or neither".into())),
     };
     let points = view.points.map(|p| p as usize).unwrap_or(DEFAULT_POINTS);
-    let grid = Grid::linspace(x_range.0, x_range.1, points, axis).map_err(|e| Failure::input("range", e))?;
+    let grid = Grid::linspace(x_range.0, x_range.1, points, axis).map_err(|e| Failure::input("--from/--to", e))?;
     let spectra = evaluate(&model, &grid.wavenumber_cm1).map_err(|e| Failure::input(&origin, e))?;
 
     let mut req = PlotRequest::new(kind, &spectra, axis, x_range);
@@ -92,7 +92,10 @@ pub fn render(path: &Path, o: &RenderOptions, output: &Path, out: &mut Vec<u8>) 
     req.dark = o.dark;
     req.show_contributions = o.contributions;
     req.legend = o.legend;
-    let text = figures::svg(&req, o.width, o.height).map_err(|e| Failure::input(&origin, e))?;
+    let text = figures::svg(&req, o.width, o.height).map_err(|e| match e.field.as_str() {
+        "width" | "height" => Failure::input(&format!("--{}", e.field), Error::new(e.kind, "", e.message)),
+        _ => Failure::input(&origin, e),
+    })?;
 
     if output.as_os_str() == "-" {
         out.extend_from_slice(text.as_bytes());

@@ -91,6 +91,19 @@ enum Verb {
         #[arg(short = 'o', long)]
         output: PathBuf,
     },
+    /// Print a share link that carries the whole document.
+    Link {
+        /// The model document (JSON).
+        doc: PathBuf,
+        /// Address of the page the link opens (the fragment is added after '#').
+        #[arg(long, default_value = "index.html")]
+        base: String,
+    },
+    /// Print the document a share link holds (pretty JSON).
+    Open {
+        /// The link, its fragment, or "-" to read it from standard input.
+        link: String,
+    },
 }
 
 /// A failure: the exit code and the one line to print.
@@ -134,6 +147,8 @@ pub fn run<I: IntoIterator<Item = OsString>>(args: I) -> i32 {
             };
             share::render(&doc, &options, &output, &mut out)
         }
+        Verb::Link { doc, base } => share::link(&doc, &base, &mut out),
+        Verb::Open { link } => share::open(&link, &mut out),
     };
     match result {
         Ok(()) => {

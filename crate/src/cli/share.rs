@@ -1,10 +1,12 @@
 //! `render`: one plot as SVG for wikis that take no iframes; it draws the
 //! figure of the page through the same `figures::draw`.
+//! `link` / `open`: share links made and read by the codec the page uses.
 
 use super::{load, Failure};
 use crate::document::ViewDoc;
 use crate::error::{Error, ErrorKind};
 use crate::figures::{self, PlotKind, PlotRequest};
+use crate::link;
 use crate::spectra::{evaluate, Grid};
 use crate::units::{AxisUnit, CdUnit, OrdUnit};
 use std::path::Path;
@@ -115,4 +117,42 @@ fn default_range(view: &ViewDoc, model: &crate::Model, axis: AxisUnit) -> (f64, 
     };
     let ends = [lo_nm, hi_nm].map(|nm| axis.from_wavenumber(AxisUnit::Nanometre.to_wavenumber(nm)));
     (ends[0].min(ends[1]), ends[0].max(ends[1]))
+}
+
+pub fn link(path: &Path, base: &str, out: &mut Vec<u8>) -> Result<(), Failure> {
+    let (doc, _) = load(path)?;
+    let origin = path.display().to_string();
+    link::validate(&doc).map_err(|e| Failure::input(&origin, e))?;
+    let url = link::share_url(base, &doc).map_err(|e| Failure::input(&origin, e))?;
+    out.extend_from_slice(url.as_bytes());
+    out.push(b'\n');
+    Ok(())
+}
+
+pub fn open(text: &str, out: &mut Vec<u8>) -> Result<(), Failure> {
+    let text = if text == "-" {
+        use std::io::Read;
+        let mut buf = String::new();
+        // One byte over the cap is enough to know the link is too long.
+        let cap = link::MAX_LINK_CHARS as u64 + 1;
+        std::io::stdin().take(cap).read_to_string(&mut buf).map_err(|e| {
+            bad("standard input", ErrorKind::Io, format!("cannot read the link: {e}"))
+        })?;
+        buf
+    } else {
+        text.to_string()
+    };
+    let doc = link::decode(&text).map_err(|e| Failure::input("link", Error::new(e.kind, field_of(&e), e.message.clone())))?;
+    out.extend_from_slice(doc.to_json_pretty().as_bytes());
+    out.push(b'\n');
+    Ok(())
+}
+
+/// The codec names every link-level problem "link"; the origin says so already.
+fn field_of(e: &Error) -> String {
+    if e.field == "link" {
+        String::new()
+    } else {
+        e.field.clone()
+    }
 }

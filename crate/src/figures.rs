@@ -459,7 +459,13 @@ fn ticks(lo: f64, hi: f64, target: usize) -> (Vec<f64>, f64) {
     let target = target.max(2) as f64;
     let raw = (hi - lo) / target;
     let mag = 10f64.powf(raw.log10().floor());
-    let step = [1.0, 2.0, 5.0, 10.0].iter().map(|m| m * mag).find(|s| *s >= raw * 0.999).unwrap_or(10.0 * mag);
+    // The 1-2-5 step whose tick count is nearest the target (by ratio).
+    let off = |s: f64| ((hi - lo) / s / target).ln().abs();
+    let step = [0.5, 1.0, 2.0, 5.0, 10.0]
+        .iter()
+        .map(|m| m * mag)
+        .min_by(|a, b| off(*a).total_cmp(&off(*b)))
+        .unwrap_or(mag);
     let first = (lo / step).ceil() as i64;
     let last = (hi / step).floor() as i64;
     let ticks = (first..=last).take(100).map(|k| k as f64 * step).collect();

@@ -111,6 +111,24 @@ fn demo_document_matches_numpy_scipy_model() {
 }
 
 #[test]
+fn reference_was_made_from_this_demo() {
+    // The table records the numbers it was made from ("# model: {...}"); when
+    // the demo's sample or bands change, the table must be made again.
+    let line = REFERENCE.lines().find_map(|l| l.strip_prefix("# model: ")).expect("reference records its model");
+    let made_from: serde_json::Value = serde_json::from_str(line).expect("model line is JSON");
+    let mut demo: serde_json::Value = serde_json::from_str(DEMO).expect("demo is JSON");
+    for band in demo["bands"].as_array_mut().expect("bands") {
+        band.as_object_mut().expect("band object").remove("name");
+    }
+    let now = serde_json::json!({"sample": demo["sample"], "bands": demo["bands"]});
+    assert_eq!(
+        now, made_from,
+        "fixtures/demo/demo.json changed since fixtures/reference/demo_spectra_scipy.csv was made: \
+         run python3 fixtures/reference/make_reference.py and commit the tables"
+    );
+}
+
+#[test]
 fn demo_grid_is_the_stated_one() {
     // The comparison is only as good as its grid: 1 nm steps over 180..650 nm
     // (deep-UV CD to the red end of polarimetry) and the lamp lines of

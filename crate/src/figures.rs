@@ -495,7 +495,8 @@ fn scale_exponent(lo: f64, hi: f64) -> i32 {
     if (-2..4).contains(&e) {
         0
     } else {
-        e.div_euclid(3) * 3
+        // Bounded so that 10^-e stays a finite double.
+        (e.div_euclid(3) * 3).clamp(-300, 300)
     }
 }
 

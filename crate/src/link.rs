@@ -11,6 +11,7 @@
 //!   code, so the mapping stays reversible), and
 //! - whole-valued numbers are written without ".0" (never -0, which keeps its
 //!   sign as a float).
+//!
 //! Numbers are serde_json's shortest round-trip form, parsed back exactly
 //! (the `float_roundtrip` feature), so they survive bit for bit.
 //!

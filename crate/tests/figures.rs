@@ -227,3 +227,39 @@ fn readout_gives_the_plotted_values_at_the_nearest_point() {
     assert_eq!(r.values.len(), 1 + m.bands.len());
     assert!(figures::readout(&req, f64::NAN).is_err());
 }
+
+mod extreme_values {
+    use super::*;
+    use proptest::prelude::*;
+
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 64, ..ProptestConfig::default() })]
+
+        /// Whatever numbers reach the figure (huge, tiny, subnormal, NaN,
+        /// infinite), drawing returns a value and never panics.
+        #[test]
+        fn any_values_draw_without_panicking(
+            values in prop::collection::vec(proptest::num::f64::ANY, 50),
+            kind in prop::sample::select(PlotKind::ALL.to_vec()),
+            lo in 100.0..400.0f64,
+            width in 1e-6..300.0f64,
+        ) {
+            let m = demo();
+            let mut s = spectra(&m, 180.0, 400.0, 50, AxisUnit::Nanometre);
+            s.delta_epsilon = values.clone();
+            s.epsilon = values.iter().map(|v| v * 0.5).collect();
+            s.rotation_deg = values.iter().rev().copied().collect();
+            s.n_left = values.clone();
+            s.delta_n = values.clone();
+            if let Some(b) = s.bands.first_mut() {
+                b.delta_epsilon = values.clone();
+                b.rotation_deg = values.clone();
+            }
+            let req = PlotRequest::new(kind, &s, AxisUnit::Nanometre, (lo, lo + width));
+            match svg(&req, 320, 200) {
+                Ok(out) => prop_assert!(out.ends_with("</svg>\n") || out.ends_with("</svg>")),
+                Err(e) => prop_assert!(!e.message.is_empty()),
+            }
+        }
+    }
+}

@@ -747,7 +747,7 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, req: &PlotRequest
     if req.legend && !legend_done.is_empty() {
         chart
             .configure_series_labels()
-            .position(SeriesLabelPosition::UpperRight)
+            .position(legend_corner(&sums, &bands, &xs, &visible, (lo, hi), (y_lo, y_hi), frame_y2, reversed))
             .margin((font_px * 0.6) as u32)
             .label_font(tick_font.clone())
             .background_style(theme.background.mix(0.85))
@@ -767,6 +767,52 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, req: &PlotRequest
         y_range: (y_lo, y_hi),
         y2_range: frame_y2,
     })
+}
+
+/// The corner of the plot whose outer third holds the fewest drawn points,
+/// so the legend hides as little data as possible (ties: upper right).
+#[allow(clippy::too_many_arguments)]
+fn legend_corner(
+    sums: &[Trace],
+    bands: &[Trace],
+    xs: &[f64],
+    visible: &[bool],
+    (lo, hi): (f64, f64),
+    y: (f64, f64),
+    y2: Option<(f64, f64)>,
+    reversed: bool,
+) -> SeriesLabelPosition {
+    // Fractions across the box, 0 = left/bottom as drawn.
+    let along = |v: f64, (a, b): (f64, f64)| (v - a) / (b - a);
+    let mut counts = [0usize; 4]; // upper right, upper left, lower right, lower left
+    for t in sums.iter().chain(bands) {
+        let yr = if t.secondary { y2.unwrap_or(y) } else { y };
+        for ((x, v), vis) in xs.iter().zip(&t.values).zip(visible) {
+            if !*vis || !v.is_finite() {
+                continue;
+            }
+            let fx = along(*x, (lo, hi));
+            let fx = if reversed { 1.0 - fx } else { fx };
+            let fy = along(*v, yr);
+            let right = fx > 0.65;
+            let left = fx < 0.35;
+            if fy > 0.65 {
+                counts[0] += usize::from(right);
+                counts[1] += usize::from(left);
+            } else if fy < 0.35 {
+                counts[2] += usize::from(right);
+                counts[3] += usize::from(left);
+            }
+        }
+    }
+    let corners = [
+        SeriesLabelPosition::UpperRight,
+        SeriesLabelPosition::UpperLeft,
+        SeriesLabelPosition::LowerRight,
+        SeriesLabelPosition::LowerLeft,
+    ];
+    let best = (0..4).min_by_key(|i| counts[*i]).unwrap_or(0);
+    corners.into_iter().nth(best).unwrap_or(SeriesLabelPosition::UpperRight)
 }
 
 /// Backend pixels per SVG pixel in [`svg`].

@@ -192,7 +192,7 @@ fn main() {
     let mut c = Criterion::default()
         .warm_up_time(Duration::from_millis(500))
         .measurement_time(Duration::from_secs(2))
-        .sample_size(40)
+        .sample_size(20)
         .output_directory(&dir)
         .configure_from_args();
     bench_evaluate(&mut c);

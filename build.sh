@@ -1,0 +1,198 @@
+#!/usr/bin/env bash
+# chiroptic's one build script.
+#
+#   ./build.sh                 build the page into dist/ (wasm in release)
+#   ./build.sh serve [--port N]  build, then serve dist/ on 127.0.0.1 (default port 8080)
+#   ./build.sh test            install test needs, run every Rust test, build the
+#                              page and run the browser tests; exits non-zero on
+#                              any failure
+#
+# Whatever is missing is installed on first use (the wasm32 target,
+# wasm-bindgen-cli at the exact version in Cargo.lock, Debian's chromium, the
+# npm packages of tests/); a second run finds it all and is fast.
+set -euo pipefail
+
+ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")" && pwd)"
+cd "$ROOT"
+DIST="$ROOT/dist"
+TARGET_DIR="${CARGO_TARGET_DIR:-$ROOT/target}"
+WASM_TARGET=wasm32-unknown-unknown
+export PATH="$HOME/.cargo/bin:$PATH"
+
+say() { printf '\033[1m==> %s\033[0m\n' "$*" >&2; }
+die() { printf 'build.sh: %s\n' "$*" >&2; exit 1; }
+
+APT_UPDATED=0
+# Installs Debian packages; refreshes the package lists once per run, and
+# only when an install needs it.
+apt_install() {
+    command -v apt-get >/dev/null || return 1
+    local sudo=""
+    [ "$(id -u)" -eq 0 ] || sudo="sudo"
+    if [ "$APT_UPDATED" -eq 0 ]; then
+        $sudo apt-get update -qq >&2 || return 1
+        APT_UPDATED=1
+    fi
+    DEBIAN_FRONTEND=noninteractive $sudo apt-get install -y -qq --no-install-recommends "$@" >&2
+}
+
+ensure_wasm_target() {
+    if ! rustup target list --installed 2>/dev/null | grep -qx "$WASM_TARGET"; then
+        say "adding the Rust target $WASM_TARGET"
+        rustup target add "$WASM_TARGET"
+    fi
+}
+
+# The wasm-bindgen crate version the lock file resolved; the CLI must match it
+# exactly or the generated glue does not fit the wasm.
+locked_wasm_bindgen_version() {
+    awk '/^name = "wasm-bindgen"$/ { getline; gsub(/version = |"/, ""); print; exit }' "$ROOT/Cargo.lock"
+}
+
+ensure_wasm_bindgen() {
+    local want have
+    want="$(locked_wasm_bindgen_version)"
+    if [ -z "$want" ]; then
+        cargo fetch --manifest-path "$ROOT/Cargo.toml" --target "$WASM_TARGET" >&2
+        want="$(locked_wasm_bindgen_version)"
+    fi
+    [ -n "$want" ] || die "Cargo.lock names no wasm-bindgen version"
+    have="$(wasm-bindgen --version 2>/dev/null | awk '{print $2}' || true)"
+    if [ "$have" != "$want" ]; then
+        say "installing wasm-bindgen-cli $want (found: ${have:-none}); a few minutes, once"
+        cargo install wasm-bindgen-cli --version "$want"
+    fi
+}
+
+# wasm-opt (Debian's binaryen) shrinks the module when a usable one is on the
+# machine. Binaryen before version 116 reads the externref table that
+# wasm-bindgen emits as anyref and writes a module browsers refuse (seen with
+# Debian 12's version 108), so older versions are skipped, and the build does
+# not install binaryen just to skip it: the module is under budget without it.
+WASM_OPT_MIN_VERSION=116
+optimise_wasm() {
+    local file="$1" version
+    command -v wasm-opt >/dev/null || return 0
+    version="$(wasm-opt --version 2>/dev/null | grep -oE '[0-9]+' | head -1)"
+    if [ -z "$version" ] || [ "$version" -lt "$WASM_OPT_MIN_VERSION" ]; then
+        say "wasm-opt ${version:-?} is older than $WASM_OPT_MIN_VERSION and breaks reference types: not used"
+        return 0
+    fi
+    # The features are those rustc enables by default for wasm32.
+    if wasm-opt -O3 --enable-bulk-memory --enable-nontrapping-float-to-int --enable-sign-ext \
+            --enable-mutable-globals --enable-reference-types --enable-multivalue \
+            "$file" -o "$file.opt"; then
+        mv "$file.opt" "$file"
+    else
+        rm -f "$file.opt"
+        say "wasm-opt failed: keeping the unoptimised module"
+    fi
+}
+
+build_page() {
+    ensure_wasm_target
+    ensure_wasm_bindgen
+    say "building the wasm module (release)"
+    cargo build --manifest-path "$ROOT/Cargo.toml" -p chiroptic --lib --release --target "$WASM_TARGET"
+    local stage="$TARGET_DIR/page"
+    rm -rf "$stage" && mkdir -p "$stage"
+    wasm-bindgen --target web --no-typescript --remove-name-section --remove-producers-section \
+        --out-dir "$stage" "$TARGET_DIR/$WASM_TARGET/release/chiroptic.wasm"
+    optimise_wasm "$stage/chiroptic_bg.wasm"
+    rm -rf "$DIST" && mkdir -p "$DIST/pkg"
+    cp "$ROOT"/www/index.html "$ROOT"/www/app.js "$ROOT"/www/style.css "$DIST/"
+    cp "$stage/chiroptic.js" "$stage/chiroptic_bg.wasm" "$DIST/pkg/"
+    say "page in dist/ (wasm: $(wc -c <"$DIST/pkg/chiroptic_bg.wasm") bytes)"
+}
+
+serve() {
+    local port=8080
+    while [ $# -gt 0 ]; do
+        case "$1" in
+            --port) [ $# -ge 2 ] || die "--port needs a number"; port="$2"; shift 2 ;;
+            --port=*) port="${1#--port=}"; shift ;;
+            *) die "serve: unknown option '$1' (use --port N)" ;;
+        esac
+    done
+    [[ "$port" =~ ^[0-9]+$ ]] && [ "$port" -ge 1 ] && [ "$port" -le 65535 ] \
+        || die "--port must be a whole number from 1 to 65535 (got '$port')"
+    build_page
+    exec node "$ROOT/tests/lib/server.mjs" --dir "$DIST" --port "$port"
+}
+
+ensure_test_tools() {
+    if [ ! -x /usr/bin/chromium ]; then
+        say "installing Debian's chromium for the browser tests"
+        apt_install chromium || die "cannot install chromium (apt-get install chromium)"
+    fi
+    command -v npm >/dev/null || apt_install nodejs npm || die "cannot install node and npm"
+    # npm ci only when the lock changed since the last install.
+    local stamp="$ROOT/tests/node_modules/.chiroptic-lock"
+    if ! cmp -s "$ROOT/tests/package-lock.json" "$stamp"; then
+        say "installing the test packages (npm ci in tests/)"
+        (cd "$ROOT/tests" && npm ci --no-audit --no-fund --loglevel=error)
+        cp "$ROOT/tests/package-lock.json" "$stamp"
+    fi
+}
+
+# Adds the counts of every "test result:" line in a cargo log.
+cargo_counts() {
+    awk '/^test result:/ { for (i = 1; i <= NF; i++) { if ($(i) ~ /^passed;?$/) p += $(i-1); if ($(i) ~ /^failed;?$/) f += $(i-1) } }
+         END { printf "%d %d\n", p, f }' "$1"
+}
+
+run_tests() {
+    local logs="$TARGET_DIR/test-logs"
+    mkdir -p "$logs"
+    local passed=0 failed=0 p f
+    local -a report=()
+
+    ensure_test_tools
+
+    say "Rust tests: cargo test --workspace"
+    if cargo test --workspace 2>&1 | tee "$logs/cargo.log"; then
+        read -r p f < <(cargo_counts "$logs/cargo.log")
+        report+=("rust:    $p passed, $f failed")
+    else
+        read -r p f < <(cargo_counts "$logs/cargo.log")
+        [ "$f" -gt 0 ] || f=1   # a build failure counts as one failure
+        report+=("rust:    $p passed, $f failed (cargo test failed; see $logs/cargo.log)")
+    fi
+    passed=$((passed + p)); failed=$((failed + f))
+
+    say "building the CLI (debug) the browser tests compare with"
+    local page_ok=1
+    cargo build --manifest-path "$ROOT/Cargo.toml" -p chiroptic --bin chiroptic || page_ok=0
+    if [ "$page_ok" -eq 1 ] && build_page; then
+        say "browser tests"
+        rm -f "$logs/page.tap"
+        if CHIROPTIC_CLI="$TARGET_DIR/debug/chiroptic" CHIROPTIC_DIST="$DIST" \
+            node --test --test-concurrency=1 \
+                --test-reporter=spec --test-reporter-destination=stdout \
+                --test-reporter=tap --test-reporter-destination="$logs/page.tap" \
+                "$ROOT"/tests/e2e/*.test.mjs; then :; fi
+        p=$(awk '/^# pass /{print $3}' "$logs/page.tap" | tail -1)
+        f=$(awk '/^# fail /{print $3}' "$logs/page.tap" | tail -1)
+        p=${p:-0}; f=${f:-1}
+        [ "$p" -gt 0 ] || f=$((f > 0 ? f : 1))   # no test run is a failure
+        report+=("browser: $p passed, $f failed")
+    else
+        p=0; f=1
+        report+=("browser: not run: the CLI or the page failed to build")
+    fi
+    passed=$((passed + p)); failed=$((failed + f))
+
+    echo
+    echo "== chiroptic test summary =="
+    printf '  %s\n' "${report[@]}"
+    echo "summary: $passed passed, $failed failed"
+    [ "$failed" -eq 0 ]
+}
+
+case "${1:-build}" in
+    build) build_page ;;
+    serve) shift; serve "$@" ;;
+    test) run_tests ;;
+    -h|--help|help) sed -n '2,12p' "$0" | sed 's/^# \{0,1\}//' ;;
+    *) die "unknown command '$1' (use: build, serve [--port N], test)" ;;
+esac

@@ -1,0 +1,67 @@
+// Browser timing script (run on demand, not a test):
+//   node tests/bench/redraw.mjs [--rounds N]
+// Builds a 10-band model on 2000 points through the page's own controls, then
+// times, for N edits of a rotatory strength, the span from dispatching the
+// input event to the end of the page's handler (document validated, spectra
+// evaluated, all four plots redrawn), and to the next animation frame after
+// it. Prints medians and the wasm file size.
+import { statSync } from "node:fs";
+import { join } from "node:path";
+import { startBrowser, openPage, DIST } from "../lib/harness.mjs";
+
+const arg = (name, dflt) => {
+  const i = process.argv.indexOf(name);
+  return i > 0 ? Number(process.argv[i + 1]) : dflt;
+};
+const rounds = arg("--rounds", 60);
+
+const median = (xs) => {
+  const s = [...xs].sort((a, b) => a - b);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
+};
+const pct = (xs, p) => [...xs].sort((a, b) => a - b)[Math.min(xs.length - 1, Math.floor(p * xs.length))];
+
+const env = await startBrowser();
+try {
+  const { page, log } = await openPage(env, { width: 1280, height: 800 });
+  // Ten bands: the demo's three plus seven added with the "Add band" button.
+  while ((await page.locator("tr.band-row").count()) < 10) await page.click("#add-band");
+  await page.fill("#points", "2000");
+  const bands = await page.locator("tr.band-row").count();
+
+  const result = await page.evaluate(async (rounds) => {
+    const input = document.getElementById("band-0-r");
+    const handler = [];
+    const frame = [];
+    const nextFrame = () => new Promise((ok) => requestAnimationFrame(() => ok(performance.now())));
+    for (let i = 0; i < rounds; i++) {
+      await nextFrame();
+      input.value = String(5 + (i % 7));
+      let ok = false;
+      const listener = (e) => (ok = e.detail.ok);
+      document.addEventListener("chiroptic:updated", listener, { once: true });
+      const t0 = performance.now();
+      input.dispatchEvent(new Event("input", { bubbles: true }));
+      const t1 = performance.now();
+      const t2 = await nextFrame();
+      if (!ok) throw new Error("an update failed during the benchmark");
+      handler.push(t1 - t0);
+      frame.push(t2 - t0);
+    }
+    const points = Number(document.getElementById("points").value);
+    return { handler, frame, points };
+  }, rounds);
+
+  const wasm = statSync(join(DIST, "pkg", "chiroptic_bg.wasm")).size;
+  console.log(`bands: ${bands}, points: ${result.points}, rounds: ${rounds}`);
+  console.log(
+    `input event -> four plots redrawn (handler): median ${median(result.handler).toFixed(2)} ms, ` +
+      `p90 ${pct(result.handler, 0.9).toFixed(2)} ms, min ${Math.min(...result.handler).toFixed(2)} ms`,
+  );
+  console.log(`input event -> next animation frame: median ${median(result.frame).toFixed(2)} ms`);
+  console.log(`wasm: ${wasm} bytes (${(wasm / 1024).toFixed(0)} KiB) before compression`);
+  if (log.errors.length) console.log(`console errors: ${log.errors.join(" | ")}`);
+} finally {
+  await env.close();
+}

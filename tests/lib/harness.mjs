@@ -1,0 +1,97 @@
+// Shared set-up of the browser tests, the timing script and the screenshot
+// script: serve dist/ on 127.0.0.1, start Debian's headless Chromium with the
+// flags this workplace requires, and watch every console message and request.
+import { chromium } from "playwright-core";
+import { join, resolve, dirname } from "node:path";
+import { fileURLToPath } from "node:url";
+import { serveDirectory } from "./server.mjs";
+
+const here = dirname(fileURLToPath(import.meta.url));
+export const ROOT = resolve(here, "..", "..");
+export const DIST = process.env.CHIROPTIC_DIST ?? join(ROOT, "dist");
+export const CLI = process.env.CHIROPTIC_CLI ?? join(ROOT, "target", "debug", "chiroptic");
+export const DEMO = join(ROOT, "fixtures", "demo", "demo.json");
+
+/** Starts the server and the browser; `close()` ends both. */
+export async function startBrowser() {
+  const server = await serveDirectory(DIST, 0);
+  const origin = `http://127.0.0.1:${server.address().port}`;
+  // launch() gives Chromium a new empty --user-data-dir of its own (and refuses
+  // the flag), which is what the workplace rules ask for.
+  const browser = await chromium.launch({
+    executablePath: process.env.CHROMIUM ?? "/usr/bin/chromium",
+    headless: true,
+    args: [
+      "--headless",
+      "--no-sandbox",
+      "--disable-gpu",
+      "--disable-quic",
+      "--no-first-run",
+      "--disable-background-networking",
+      "--disable-component-update",
+      "--disable-sync",
+    ],
+  });
+  return {
+    origin,
+    browser,
+    async close() {
+      await browser.close();
+      await new Promise((ok) => server.close(ok));
+    },
+  };
+}
+
+/**
+ * Opens the page and waits until the first plots are drawn. Every console
+ * error, page error and request is recorded; requests that leave 127.0.0.1
+ * are refused and listed in `foreign`.
+ */
+export async function openPage(env, { width = 1280, height = 800, colorScheme = "light", path = "/" } = {}) {
+  const context = await env.browser.newContext({ viewport: { width, height }, colorScheme, acceptDownloads: true });
+  const page = await context.newPage();
+  const log = { errors: [], requests: [], foreign: [] };
+  page.on("console", (m) => {
+    if (m.type() === "error") log.errors.push(m.text());
+  });
+  page.on("pageerror", (e) => log.errors.push(`page error: ${e.message}`));
+  await context.route("**/*", (route) => {
+    const url = new URL(route.request().url());
+    log.requests.push(url.href);
+    const local = url.protocol === "blob:" || url.protocol === "data:" || url.hostname === "127.0.0.1";
+    if (local) return route.continue();
+    log.foreign.push(url.href);
+    return route.abort();
+  });
+  await page.goto(env.origin + path);
+  try {
+    await page.waitForSelector("html[data-ready=true]", { state: "attached", timeout: 20000 });
+  } catch (e) {
+    const fatal = await page.textContent("#fatal").catch(() => "");
+    throw new Error(`the page did not start: ${fatal || "no message"}; console: ${log.errors.join(" | ")}`);
+  }
+  return { page, context, log };
+}
+
+/** Resolves after the page's next update (its `chiroptic:updated` event). */
+export function nextUpdate(page) {
+  return page.evaluate(
+    () => new Promise((ok) => document.addEventListener("chiroptic:updated", (e) => ok(e.detail), { once: true })),
+  );
+}
+
+/** A digest of a canvas's pixels, and how many differ from the background. */
+export async function canvasDigest(page, id) {
+  return page.evaluate((id) => {
+    const c = document.getElementById(id);
+    const data = c.getContext("2d").getImageData(0, 0, c.width, c.height).data;
+    const [r0, g0, b0] = data;
+    let inked = 0;
+    let hash = 2166136261;
+    for (let i = 0; i < data.length; i += 4) {
+      if (data[i] !== r0 || data[i + 1] !== g0 || data[i + 2] !== b0) inked++;
+      hash = Math.imul(hash ^ data[i] ^ (data[i + 1] << 8) ^ (data[i + 2] << 16), 16777619) >>> 0;
+    }
+    return { width: c.width, height: c.height, inked, hash };
+  }, id);
+}

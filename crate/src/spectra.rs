@@ -124,21 +124,11 @@ pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
     let chiral_scale = LN_10 * c / (4.0 * PI * ROTATORY_CONSTANT);
     let mean_scale = LN_10 * c / (4.0 * PI * DIPOLE_CONSTANT);
 
-    let mut n_solvent = Vec::with_capacity(n);
-    for &nu in wavenumber_cm1 {
-        let ns = model.sample.solvent.index(nu);
-        if !ns.is_finite() {
-            return Err(Error::new(
-                ErrorKind::OutOfRange,
-                "sample.solvent",
-                format!(
-                    "the solvent series has no real index at {:.1} nm (outside its range)",
-                    AxisUnit::Nanometre.from_wavenumber(nu)
-                ),
-            ));
-        }
-        n_solvent.push(ns);
-    }
+    let n_solvent = solvent_index(model, wavenumber_cm1)?;
+    // Per-point factors, computed once: e = eps_per_k * k, phi = deg_per_dn * Dn.
+    let eps_per_k: Vec<f64> = wavenumber_cm1.iter().map(|nu| epsilon_from_k(1.0, *nu, c)).collect();
+    let deg_per_dn: Vec<f64> =
+        wavenumber_cm1.iter().map(|nu| units::degrees_from_delta_n(1.0, *nu, ctx.path_length_cm)).collect();
 
     let mut delta_n = vec![0.0; n];
     let mut delta_k = vec![0.0; n];
@@ -148,62 +138,65 @@ pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
     for band in &model.bands {
         let r = chiral_scale * band.rotatory_strength_esu2_cm2;
         let d = mean_scale * band.dipole_strength_esu2_cm2;
-        let mut contribution = BandContribution {
-            name: band.name.clone(),
-            delta_n: Vec::with_capacity(n),
-            delta_epsilon: Vec::with_capacity(n),
-            epsilon: Vec::with_capacity(n),
-            rotation_deg: Vec::with_capacity(n),
-        };
-        for (i, &nu) in wavenumber_cm1.iter().enumerate() {
-            let s = band.lineshape.value(nu);
-            let (dn, dk) = (r * s.re, r * s.im);
-            delta_n[i] += dn;
-            delta_k[i] += dk;
+        let shape = band.lineshape.values(wavenumber_cm1);
+        for (i, s) in shape.iter().enumerate() {
+            delta_n[i] += r * s.re;
+            delta_k[i] += r * s.im;
             dn_mean[i] += d * s.re;
             k_mean[i] += d * s.im;
-            contribution.delta_n.push(dn);
-            contribution.delta_epsilon.push(epsilon_from_k(dk, nu, c));
-            contribution.epsilon.push(epsilon_from_k(d * s.im, nu, c));
-            contribution.rotation_deg.push(units::degrees_from_delta_n(dn, nu, ctx.path_length_cm));
         }
-        contributions.push(contribution);
+        contributions.push(BandContribution {
+            name: band.name.clone(),
+            delta_n: shape.iter().map(|s| r * s.re).collect(),
+            delta_epsilon: shape.iter().zip(&eps_per_k).map(|(s, f)| f * r * s.im).collect(),
+            epsilon: shape.iter().zip(&eps_per_k).map(|(s, f)| f * d * s.im).collect(),
+            rotation_deg: shape.iter().zip(&deg_per_dn).map(|(s, f)| f * r * s.re).collect(),
+        });
     }
 
-    let mut s = Spectra {
+    let mean_n: Vec<f64> = n_solvent.iter().zip(&dn_mean).map(|(a, b)| a + b).collect();
+    let delta_epsilon: Vec<f64> = delta_k.iter().zip(&eps_per_k).map(|(k, f)| f * k).collect();
+    let epsilon: Vec<f64> = k_mean.iter().zip(&eps_per_k).map(|(k, f)| f * k).collect();
+    // mdeg needs no optional sample data, so this conversion cannot fail.
+    let mdeg_per_de = CdUnit::Millidegrees.from_delta_epsilon(1.0, 1.0, &ctx).unwrap_or(f64::NAN);
+    Ok(Spectra {
         context: ctx,
         wavenumber_cm1: wavenumber_cm1.to_vec(),
-        n_left: Vec::with_capacity(n),
-        n_right: Vec::with_capacity(n),
-        k_left: Vec::with_capacity(n),
-        k_right: Vec::with_capacity(n),
-        rotation_deg: Vec::with_capacity(n),
-        ellipticity_mdeg: Vec::with_capacity(n),
-        delta_epsilon: Vec::with_capacity(n),
-        epsilon: Vec::with_capacity(n),
-        g_factor: Vec::with_capacity(n),
+        n_left: mean_n.iter().zip(&delta_n).map(|(m, d)| m + d / 2.0).collect(),
+        n_right: mean_n.iter().zip(&delta_n).map(|(m, d)| m - d / 2.0).collect(),
+        k_left: k_mean.iter().zip(&delta_k).map(|(m, d)| m + d / 2.0).collect(),
+        k_right: k_mean.iter().zip(&delta_k).map(|(m, d)| m - d / 2.0).collect(),
+        rotation_deg: delta_n.iter().zip(&deg_per_dn).map(|(d, f)| f * d).collect(),
+        ellipticity_mdeg: delta_epsilon.iter().map(|de| mdeg_per_de * de).collect(),
+        g_factor: delta_epsilon.iter().zip(&epsilon).map(|(de, e)| de / e).collect(),
+        delta_epsilon,
+        epsilon,
         n_solvent,
         delta_n,
         delta_k,
         bands: contributions,
-    };
-    for i in 0..n {
-        let nu = s.wavenumber_cm1[i];
-        let mean = s.n_solvent[i] + dn_mean[i];
-        s.n_left.push(mean + s.delta_n[i] / 2.0);
-        s.n_right.push(mean - s.delta_n[i] / 2.0);
-        s.k_left.push(k_mean[i] + s.delta_k[i] / 2.0);
-        s.k_right.push(k_mean[i] - s.delta_k[i] / 2.0);
-        s.rotation_deg.push(units::degrees_from_delta_n(s.delta_n[i], nu, ctx.path_length_cm));
-        let de = epsilon_from_k(s.delta_k[i], nu, c);
-        let e = epsilon_from_k(k_mean[i], nu, c);
-        s.delta_epsilon.push(de);
-        s.epsilon.push(e);
-        // mdeg needs no optional sample data, so this conversion cannot fail.
-        s.ellipticity_mdeg.push(CdUnit::Millidegrees.from_delta_epsilon(de, e, &ctx).unwrap_or(f64::NAN));
-        s.g_factor.push(de / e);
-    }
-    Ok(s)
+    })
+}
+
+fn solvent_index(model: &Model, wavenumber_cm1: &[f64]) -> Result<Vec<f64>> {
+    wavenumber_cm1
+        .iter()
+        .map(|&nu| {
+            let ns = model.sample.solvent.index(nu);
+            if ns.is_finite() {
+                Ok(ns)
+            } else {
+                Err(Error::new(
+                    ErrorKind::OutOfRange,
+                    "sample.solvent",
+                    format!(
+                        "the solvent series has no real index at {:.1} nm (outside its range)",
+                        AxisUnit::Nanometre.from_wavenumber(nu)
+                    ),
+                ))
+            }
+        })
+        .collect()
 }
 
 /// e = 4 pi nu k / (ln10 c), M^-1 cm^-1 (likewise De from Dk).

@@ -226,38 +226,33 @@ impl Spectra {
 
     /// The total CD in a chosen unit.
     pub fn cd_in(&self, unit: CdUnit) -> std::result::Result<Vec<f64>, UnitError> {
-        self.delta_epsilon
-            .iter()
-            .zip(&self.epsilon)
-            .map(|(de, e)| unit.from_delta_epsilon(*de, *e, &self.context))
-            .collect()
+        cd_values(&self.delta_epsilon, &self.epsilon, unit, &self.context)
     }
 
     /// One band's CD in a chosen unit (g uses the band's own e).
     pub fn band_cd_in(&self, band: usize, unit: CdUnit) -> std::result::Result<Vec<f64>, UnitError> {
-        let b = &self.bands[band];
-        b.delta_epsilon
-            .iter()
-            .zip(&b.epsilon)
-            .map(|(de, e)| unit.from_delta_epsilon(*de, *e, &self.context))
-            .collect()
+        let b = self.band(band)?;
+        cd_values(&b.delta_epsilon, &b.epsilon, unit, &self.context)
     }
 
     /// The total rotation in a chosen unit.
     pub fn ord_in(&self, unit: OrdUnit) -> std::result::Result<Vec<f64>, UnitError> {
-        self.rotation_deg
-            .iter()
-            .zip(&self.wavenumber_cm1)
-            .map(|(p, nu)| unit.from_degrees(*p, *nu, &self.context))
-            .collect()
+        ord_values(&self.rotation_deg, &self.wavenumber_cm1, unit, &self.context)
     }
 
     pub fn band_ord_in(&self, band: usize, unit: OrdUnit) -> std::result::Result<Vec<f64>, UnitError> {
-        self.bands[band]
-            .rotation_deg
-            .iter()
-            .zip(&self.wavenumber_cm1)
-            .map(|(p, nu)| unit.from_degrees(*p, *nu, &self.context))
-            .collect()
+        ord_values(&self.band(band)?.rotation_deg, &self.wavenumber_cm1, unit, &self.context)
     }
+
+    fn band(&self, band: usize) -> std::result::Result<&BandContribution, UnitError> {
+        self.bands.get(band).ok_or_else(|| UnitError(format!("no band {} (the model has {})", band + 1, self.bands.len())))
+    }
+}
+
+fn cd_values(de: &[f64], e: &[f64], unit: CdUnit, ctx: &SampleContext) -> std::result::Result<Vec<f64>, UnitError> {
+    de.iter().zip(e).map(|(de, e)| unit.from_delta_epsilon(*de, *e, ctx)).collect()
+}
+
+fn ord_values(phi: &[f64], nu: &[f64], unit: OrdUnit, ctx: &SampleContext) -> std::result::Result<Vec<f64>, UnitError> {
+    phi.iter().zip(nu).map(|(p, nu)| unit.from_degrees(*p, *nu, ctx)).collect()
 }

@@ -123,7 +123,14 @@ function bindNumber(spec) {
   };
 
   input.addEventListener("focus", () => {
-    if (!field.localError) input.value = fullText(field);
+    if (field.localError) return;
+    // Show every digit, all selected: typing replaces the number, as it
+    // would have without the swap (a click then places the caret as usual).
+    const text = fullText(field);
+    if (input.value !== text) {
+      input.value = text;
+      input.select();
+    }
   });
   input.addEventListener("blur", () => {
     if (!field.localError) input.value = fmtInput(safeGet(field));
@@ -375,7 +382,14 @@ function renderLines(lines) {
   const head = ["Line", "λ / nm", ord.deg, ord.specific_rotation, ord.molar_rotation];
   const headRow = $("lines-head");
   if (headRow.childElementCount === 0) {
-    headRow.replaceChildren(...head.map((h) => Object.assign(document.createElement("th"), { scope: "col", textContent: h })));
+    // "Q / unit" set as the quantity over its unit.
+    const cell = (label) => {
+      const [q, u] = label.split(" / ");
+      const th = el("th", { scope: "col" }, el("span", { className: "th-label", textContent: q }));
+      if (u) th.append(el("span", { className: "th-unit", textContent: u }));
+      return th;
+    };
+    headRow.replaceChildren(...head.map(cell));
   }
   const rows = lines.map((l) => {
     const tr = document.createElement("tr");
@@ -456,7 +470,6 @@ function renderBands() {
 
 function bandRows(band, i) {
   const n = i + 1;
-  const who = () => `band ${n} (${band.name || `B${n}`})`;
   const errorId = `band-${i}-error`;
   const tr = el("tr", { className: "band-row" });
   tr.dataset.index = String(i);
@@ -465,18 +478,19 @@ function bandRows(band, i) {
 
   // Name, with the band's colour.
   const swatch = el("span", { className: "swatch", title: `Colour of band ${n} in the plots` });
-  const name = el("input", { type: "text", value: band.name ?? "", className: "name", spellcheck: false, autocomplete: "off" });
+  const name = el("input", { type: "text", value: band.name ?? "", className: "name", id: `band-${i}-name`, spellcheck: false, autocomplete: "off" });
   name.setAttribute("aria-label", `Name of band ${n}`);
   name.dataset.field = `bands[${i}].name`;
   name.setAttribute("aria-describedby", errorId);
   name.addEventListener("input", () => {
     band.name = name.value;
+    labelActions(tr, band, i);
     refresh();
   });
   tr.append(el("td", { className: "col-name" }, el("div", { className: "name-cell" }, swatch, name)));
 
   // Shape.
-  const shape = el("select", { className: "shape" });
+  const shape = el("select", { className: "shape", id: `band-${i}-shape` });
   shape.setAttribute("aria-label", `Shape of band ${n}`);
   shape.dataset.field = `bands[${i}].shape`;
   shape.setAttribute("aria-describedby", errorId);
@@ -579,9 +593,9 @@ function bandRows(band, i) {
   tr.append(el("td", { className: "col-num" }, d.cell));
 
   // Row actions.
-  const action = (text, label, title, fn, disabled = false) => {
+  const action = (text, verb, title, fn, disabled = false) => {
     const b = el("button", { type: "button", className: "icon", textContent: text, title, disabled });
-    b.setAttribute("aria-label", label);
+    b.dataset.verb = verb;
     b.addEventListener("click", fn);
     return b;
   };
@@ -593,17 +607,24 @@ function bandRows(band, i) {
       el(
         "div",
         { className: "actions" },
-        action("▲", `Move ${who()} up`, "Move up", () => moveBand(i, -1, "up"), i === 0),
-        action("▼", `Move ${who()} down`, "Move down", () => moveBand(i, 1, "down"), i === last),
-        action("⧉", `Duplicate ${who()}`, "Duplicate", () => duplicateBand(i)),
-        action("✕", `Delete ${who()}`, "Delete", () => deleteBand(i)),
+        action("▲", "Move {} up", "Move up", () => moveBand(i, -1, "up"), i === 0),
+        action("▼", "Move {} down", "Move down", () => moveBand(i, 1, "down"), i === last),
+        action("❐", "Duplicate {}", "Duplicate", () => duplicateBand(i)),
+        action("✕", "Delete {}", "Delete", () => deleteBand(i)),
       ),
     ),
   );
+  labelActions(tr, band, i);
 
   const errRow = el("tr", { className: "row-error", hidden: true });
   errRow.append(el("td", { colSpan: 7 }, el("span", { className: "field-error", id: errorId, role: "status" })));
   return [tr, errRow];
+}
+
+/** Names the row's buttons after the band, so they read well when renamed. */
+function labelActions(tr, band, i) {
+  const who = `band ${i + 1} (${band.name || `B${i + 1}`})`;
+  tr.querySelectorAll("button[data-verb]").forEach((b) => b.setAttribute("aria-label", b.dataset.verb.replace("{}", who)));
 }
 
 function focusRowButton(i, selector) {
@@ -619,7 +640,7 @@ function moveBand(i, by, which) {
   [bands[i], bands[j]] = [bands[j], bands[i]];
   renderBands();
   refresh();
-  focusRowButton(j, `button[aria-label^="Move"][title="Move ${which}"]`);
+  focusRowButton(j, `button[title="Move ${which}"]`);
 }
 
 function duplicateBand(i) {
@@ -1070,13 +1091,20 @@ function renderReadout(r) {
     out.textContent = "Point at a plot (or focus it and use ←/→) for values; drag to zoom.";
     return;
   }
-  const parts = [`λ ${fmtText(r.nm, 5)} nm · ${fmtText(r.cm1, 5)} cm⁻¹ · ${fmtText(r.ev, 4)} eV`];
+  // Each part carries its number in full (data-value) for copying and checks.
+  const part = (text, plot, value) => {
+    const span = el("span", { textContent: text });
+    if (plot) span.dataset.plot = plot;
+    if (value !== undefined) span.dataset.value = String(value);
+    return span;
+  };
+  const parts = [part(`λ ${fmtText(r.nm, 5)} nm (${fmtText(r.cm1, 5)} cm⁻¹, ${fmtText(r.ev, 4)} eV)`, "x", r.x)];
   for (const p of r.plots) {
     const v = Object.fromEntries(p.values);
-    if (p.plot === "index") parts.push(`n_L = ${v.n_L?.toFixed(6)} · n_R = ${v.n_R?.toFixed(6)} · Δn = ${fmtText(v["Δn"])}`);
-    else parts.push(quantity(p.label, v.sum));
+    if (p.plot === "index") parts.push(part(`n_L ${v.n_L?.toFixed(6)}, Δn ${fmtText(v["Δn"])}`, p.plot, v["Δn"]));
+    else parts.push(part(quantity(p.label, v.sum), p.plot, v.sum));
   }
-  out.replaceChildren(...parts.flatMap((t, i) => (i ? [el("span", { className: "sep", textContent: " │ " }), el("span", { textContent: t })] : [el("span", { textContent: t })])));
+  out.replaceChildren(...parts.flatMap((s, i) => (i ? [el("span", { className: "sep", textContent: " │ " }), s] : [s])));
 }
 
 function bindPlots() {

@@ -116,6 +116,8 @@ serve() {
     done
     [[ "$port" =~ ^[0-9]+$ ]] && [ "$port" -ge 1 ] && [ "$port" -le 65535 ] \
         || die "--port must be a whole number from 1 to 65535 (got '$port')"
+    # Say so now, not after a build, when the port is taken.
+    node "$ROOT/tests/lib/server.mjs" --dir "$ROOT" --port "$port" --check || exit 1
     build_page
     exec node "$ROOT/tests/lib/server.mjs" --dir "$DIST" --port "$port"
 }

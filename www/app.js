@@ -92,7 +92,7 @@ function call(fn) {
 }
 
 /** A conversion through the core; its error message becomes a thrown Error. */
-const convert = (fn) => call(fn);
+const convert = call;
 
 // ------------------------------------------------------- bound number fields
 
@@ -311,12 +311,10 @@ function renderErrors() {
   else if (stale) setStatus("The plots show the last valid model until the marked entry is fixed.", true);
 }
 
-let statusTimer = 0;
 function setStatus(text, warn = false) {
-  const el = $("status");
-  el.textContent = text;
-  el.classList.toggle("warn", warn);
-  clearTimeout(statusTimer);
+  const box = $("status");
+  box.textContent = text;
+  box.classList.toggle("warn", warn);
 }
 
 // ------------------------------------------------------------------ update
@@ -478,7 +476,7 @@ function bandRows(band, i) {
 
   // Name, with the band's colour.
   const swatch = el("span", { className: "swatch", title: `Colour of band ${n} in the plots` });
-  const name = el("input", { type: "text", value: band.name ?? "", className: "name", id: `band-${i}-name`, spellcheck: false, autocomplete: "off" });
+  const name = el("input", { type: "text", value: band.name ?? "", className: "name", id: `band-${i}-name`, maxLength: 80, spellcheck: false, autocomplete: "off" });
   name.setAttribute("aria-label", `Name of band ${n}`);
   name.dataset.field = `bands[${i}].name`;
   name.setAttribute("aria-describedby", errorId);
@@ -851,8 +849,10 @@ function renderSolvent() {
     input.setAttribute("aria-describedby", slot);
     const lab = el("label", { htmlFor: id, textContent: label });
     const wrap = el("span", { className: "with-unit" }, input, el("span", { className: "unit", textContent: unit }));
-    box.append(el("div", { className: "solvent-row" }, lab, wrap));
-    bindNumber({ input, label: "", canonical: true, unit: () => unit, get, set, step: () => step, range: () => range });
+    const slider = el("input", { type: "range", className: "slider", tabIndex: -1 });
+    slider.setAttribute("aria-label", `${label}, slider`);
+    box.append(el("div", { className: "solvent-row" }, lab, wrap, slider));
+    bindNumber({ input, slider, label: "", canonical: true, unit: () => unit, get, set, step: () => step, range: () => range });
   };
   if (kind === "constant") {
     numberRow("n", "sample.solvent.constant", () => s.constant, (v) => (s.constant = v), 0.001, [1, 2]);
@@ -1007,6 +1007,8 @@ function sizeCanvases() {
   document.querySelectorAll(".canvas-box").forEach((box) => {
     const w = Math.floor(box.clientWidth);
     const h = Math.floor(box.clientHeight);
+    // Print scales the drawn bitmap at this shape (see style.css).
+    if (w && h) box.style.setProperty("--aspect", String(w / h));
     for (const c of box.querySelectorAll("canvas")) {
       if (c.width !== w || c.height !== h) {
         c.width = w;
@@ -1019,8 +1021,10 @@ function sizeCanvases() {
 }
 
 let resizePending = false;
+let printing = false;
 function onResize() {
-  if (resizePending) return;
+  // While printing, the plots keep their bitmaps and are scaled to the paper.
+  if (resizePending || printing) return;
   resizePending = true;
   requestAnimationFrame(() => {
     resizePending = false;
@@ -1259,6 +1263,7 @@ function bindTheme() {
   const mq = window.matchMedia("(prefers-color-scheme: dark)");
   const apply = () => {
     state.options.dark = mq.matches;
+    document.documentElement.classList.toggle("dark", mq.matches);
     const [bg, ink, muted, grid] = call(() => core.theme_colours(mq.matches)) ?? [];
     const root = document.documentElement.style;
     root.setProperty("--plot-bg", bg);
@@ -1271,14 +1276,14 @@ function bindTheme() {
     apply();
     redraw();
   });
-  // Paper is white whatever the screen shows.
-  window.addEventListener("beforeprint", () => {
-    state.options.dark = false;
-    redraw();
-  });
+  // Paper is white whatever the screen shows. Chromium prints the last
+  // frame a canvas presented (a redraw in "beforeprint" comes out blank), so
+  // dark plots are turned light by the print stylesheet instead (html.dark).
+  // While printing, the canvases keep their bitmaps, scaled to the paper.
+  window.addEventListener("beforeprint", () => (printing = true));
   window.addEventListener("afterprint", () => {
-    apply();
-    redraw();
+    printing = false;
+    onResize();
   });
 }
 

@@ -80,3 +80,21 @@ test("the sign conventions are one hover away", async () => {
     await context.close();
   }
 });
+
+test("print keeps the plots and tables and drops the controls", async () => {
+  const { page, context } = await openPage(env, { colorScheme: "dark" });
+  try {
+    await page.emulateMedia({ media: "print" });
+    for (const hidden of ["#window-bar", "#add-band", ".file-actions", "#readout", "input[type=range]"]) {
+      assert.equal(await page.locator(hidden).first().isVisible(), false, `${hidden} is not printed`);
+    }
+    for (const shown of ["#plot-cd", "#plot-index", "#lines-table", "#band-table", ".caution"]) {
+      assert.equal(await page.locator(shown).isVisible(), true, `${shown} is printed`);
+    }
+    // Plots drawn for the dark screen are turned light on paper.
+    const filter = await page.$eval("#plot-cd", (c) => getComputedStyle(c).filter);
+    assert.match(filter, /invert\(1\)/);
+  } finally {
+    await context.close();
+  }
+});

@@ -73,13 +73,6 @@ export async function openPage(env, { width = 1280, height = 800, colorScheme = 
   return { page, context, log };
 }
 
-/** Resolves after the page's next update (its `chiroptic:updated` event). */
-export function nextUpdate(page) {
-  return page.evaluate(
-    () => new Promise((ok) => document.addEventListener("chiroptic:updated", (e) => ok(e.detail), { once: true })),
-  );
-}
-
 /** A digest of a canvas's pixels, and how many differ from the background. */
 export async function canvasDigest(page, id) {
   return page.evaluate((id) => {

@@ -47,9 +47,11 @@ export function serveDirectory(dir, port = 0) {
 async function main(argv) {
   let dir = "dist";
   let port = 8080;
+  let checkOnly = false; // bind and let go: tells before a build whether the port is free
   for (let i = 0; i < argv.length; i++) {
     if (argv[i] === "--dir") dir = argv[++i];
     else if (argv[i] === "--port") port = Number(argv[++i]);
+    else if (argv[i] === "--check") checkOnly = true;
     else {
       console.error(`server: unknown option ${argv[i]}`);
       process.exit(2);
@@ -57,6 +59,7 @@ async function main(argv) {
   }
   try {
     const server = await serveDirectory(dir, port);
+    if (checkOnly) return server.close();
     console.log(`chiroptic: serving ${dir} at http://127.0.0.1:${server.address().port}/  (Ctrl-C stops)`);
   } catch (e) {
     if (e.code === "EADDRINUSE") {

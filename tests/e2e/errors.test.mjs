@@ -87,3 +87,33 @@ test("a window with no width is refused at the window fields", async () => {
     await context.close();
   }
 });
+
+test("a malformed model file is refused with its reason and the model stays", async () => {
+  const { page, context, log } = await openPage(env);
+  try {
+    const before = await plotHashes(page);
+    await page.setInputFiles("#file-input", {
+      name: "broken.json",
+      mimeType: "application/json",
+      buffer: Buffer.from('{"chiroptic": 1, "sample": {"concentration_mol_per_l": 0.001, "path_length_cm": 1, "solvent": {"constant": 1.33}}, "bands": [{"shape": "gaussian", "center_nm": 300, "fwhm_cm": 2000, "rotatory_strength_1e40_cgs": 1, "dipole_strength_debye2": 1}]}'),
+    });
+    await page.waitForFunction(() => /broken\.json/.test(document.getElementById("status").textContent));
+    const status = await page.textContent("#status");
+    assert.match(status, /fwhm_cm/, "the unknown field is named");
+    assert.match(status, /unchanged/);
+    assert.deepEqual(await plotHashes(page), before);
+    assert.equal(await page.locator("tr.band-row").count(), 3);
+
+    await page.setInputFiles("#file-input", {
+      name: "good.json",
+      mimeType: "application/json",
+      buffer: Buffer.from('{"chiroptic": 1, "title": "one band", "sample": {"concentration_mol_per_l": 0.001, "path_length_cm": 1, "solvent": {"constant": 1.33}}, "bands": [{"shape": "gaussian", "center_nm": 300, "fwhm_cm1": 2000, "rotatory_strength_1e40_cgs": 1, "dipole_strength_debye2": 1}]}'),
+    });
+    await page.waitForFunction(() => document.querySelectorAll("tr.band-row").length === 1);
+    assert.equal(await page.inputValue("#doc-title"), "one band");
+    assert.equal(await page.inputValue("#solvent-sample-solvent-constant"), "1.33");
+    assert.deepEqual(log.errors, []);
+  } finally {
+    await context.close();
+  }
+});

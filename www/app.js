@@ -295,25 +295,29 @@ function renderErrors() {
     if (row) row.hidden = false;
     return true;
   };
-  let general = "";
+  let first = "";
   for (const f of fields) {
-    if (f.localError && f.input.isConnected) put(f.input, f.label ? `${f.label}: ${f.localError}` : f.localError);
+    if (f.localError && f.input.isConnected) {
+      const text = f.label ? `${f.label}: ${f.localError}` : f.localError;
+      put(f.input, text);
+      first ||= text;
+    }
   }
   if (coreError) {
     const control = controlFor(coreError.field ?? "");
     const text = humanMessage(coreError, control);
-    if (!put(control, text)) general = text;
+    put(control, text);
+    first ||= text;
   }
-  const anyLocal = fields.some((f) => f.localError && f.input.isConnected);
-  const stale = coreError || anyLocal;
-  $("plot-grid").classList.toggle("stale", Boolean(stale));
-  if (general) setStatus(`${general} The plots show the last valid model.`, true);
-  else if (stale) setStatus("The plots show the last valid model until the marked entry is fixed.", true);
+  $("plot-grid").classList.toggle("stale", Boolean(first));
+  // Said again beside the plots, since the field may be out of view.
+  if (first) setStatus(`${first.replace(/\.$/, "")}. The plots show the last valid model.`, true);
 }
 
 function setStatus(text, warn = false) {
   const box = $("status");
   box.textContent = text;
+  box.title = text;
   box.classList.toggle("warn", warn);
 }
 

@@ -251,6 +251,19 @@ function setLocalError(field, message) {
 
 let coreError = null; // { field, message } from the last update
 
+/** Notes: messages about a refused choice, not about a value; shown for a while. */
+const notes = new Map();
+function showNote(slot, text) {
+  notes.set(slot, text);
+  renderErrors();
+  setTimeout(() => {
+    if (notes.get(slot) === text) {
+      notes.delete(slot);
+      renderErrors();
+    }
+  }, 5000);
+}
+
 /** Finds the control for a document path, walking up to its parents. */
 function controlFor(path) {
   const alias = { "view.range": "view.range_nm", range: "view.range_nm", grid: "view.range_nm", points: "view.points" };
@@ -295,6 +308,7 @@ function renderErrors() {
     if (row) row.hidden = false;
     return true;
   };
+  for (const [slot, text] of notes) slot.textContent = text;
   let first = "";
   for (const f of fields) {
     if (f.localError && f.input.isConnected) {
@@ -756,8 +770,12 @@ function bindSample() {
       if (shown !== undefined && v !== undefined) {
         sample().concentration_mol_per_l = core.convert_concentration(shown, state.ui.concUnit, "mol/L", v);
       }
-      if (massUnit && v === undefined) setLocalError(concField, "a mass concentration needs the molar mass");
-      else if (concField.localError) setLocalError(concField, null);
+      // Without a molar mass the concentration can only be shown per mole.
+      if (massUnit && v === undefined) {
+        state.ui.concUnit = "mol/L";
+        $("conc-unit").value = "mol/L";
+      }
+      if (concField.localError) setLocalError(concField, null);
     },
     step: relStep,
     range: () => SAMPLE_LOG_RANGES.mass,
@@ -821,10 +839,10 @@ function unitSelect(select, choices, key, input, slot) {
       if (!Number.isFinite(v)) throw new Error("cannot convert");
       field.localError = null;
     } catch (e) {
+      const wanted = select.options[select.selectedIndex]?.textContent ?? select.value;
       state.ui[key] = before;
       select.value = before;
-      setLocalError(field, `${select.options[select.selectedIndex]?.textContent ?? ""}: ${e.message}`);
-      setTimeout(() => setLocalError(field, null), 4000);
+      showNote(slot, `${wanted}: ${e.message}`);
       return;
     }
     show(field);

@@ -88,6 +88,15 @@ test("concentration and path length convert in place", async () => {
     saved = await savedModel(page);
     assertClose(saved.sample.concentration_mol_per_l, 0.001, 1e-12, "0.3124 mg/mL of 312.4 g/mol");
     assertClose(saved.sample.path_length_cm, 5, 1e-15, "0.5 dm");
+
+    // Without a molar mass a mass concentration cannot be shown: the menu
+    // falls back to mol/L, refuses mg/mL with a reason, and the value stays.
+    await enter(page, "#molar-mass", "");
+    assert.equal(await page.inputValue("#conc-unit"), "mol/L");
+    await page.selectOption("#conc-unit", "mg/mL");
+    assert.equal(await page.inputValue("#conc-unit"), "mol/L");
+    assert.match(await page.textContent("#conc-error"), /needs the molar mass/);
+    assertClose(Number(await page.inputValue("#conc")), 0.001, 1e-12, "concentration kept");
     assert.deepEqual(log.errors, []);
   } finally {
     await context.close();

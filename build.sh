@@ -1,8 +1,11 @@
 #!/usr/bin/env bash
 # chiroptic's one build script.
 #
-#   ./build.sh                 build the page into dist/ (wasm in release)
+#   ./build.sh                 build the page into dist/ (wasm: profile wasm-release)
 #   ./build.sh serve [--port N]  build, then serve dist/ on 127.0.0.1 (default port 8080)
+#   ./build.sh single          build, then write dist/chiroptic.html: the page in one
+#                              file (module, stylesheet and wasm inlined) that works
+#                              opened from disk, with no server and no network
 #   ./build.sh test            install test needs, run every Rust test, build the
 #                              page and run the browser tests; exits non-zero on
 #                              any failure
@@ -92,17 +95,77 @@ optimise_wasm() {
 build_page() {
     ensure_wasm_target
     ensure_wasm_bindgen
-    say "building the wasm module (release)"
-    cargo build --manifest-path "$ROOT/Cargo.toml" -p chiroptic --lib --release --target "$WASM_TARGET"
+    say "building the wasm module (profile wasm-release)"
+    cargo build --manifest-path "$ROOT/Cargo.toml" -p chiroptic --lib --profile wasm-release --target "$WASM_TARGET"
     local stage="$TARGET_DIR/page"
     rm -rf "$stage" && mkdir -p "$stage"
     wasm-bindgen --target web --no-typescript --remove-name-section --remove-producers-section \
-        --out-dir "$stage" "$TARGET_DIR/$WASM_TARGET/release/chiroptic.wasm"
+        --out-dir "$stage" "$TARGET_DIR/$WASM_TARGET/wasm-release/chiroptic.wasm"
     optimise_wasm "$stage/chiroptic_bg.wasm"
     rm -rf "$DIST" && mkdir -p "$DIST/pkg"
     cp "$ROOT"/www/index.html "$ROOT"/www/app.js "$ROOT"/www/style.css "$DIST/"
     cp "$stage/chiroptic.js" "$stage/chiroptic_bg.wasm" "$DIST/pkg/"
     say "page in dist/ (wasm: $(wc -c <"$DIST/pkg/chiroptic_bg.wasm") bytes)"
+}
+
+# dist/chiroptic.html from the built page in dist/: the stylesheet inline,
+# the wasm-bindgen glue as a data: module that an import map puts where the
+# page imports it from, the wasm bytes as base64 that app.js hands to the
+# glue's init, and a Content-Security-Policy that names the two inline
+# scripts by hash and allows no fetch at all.
+build_single() {
+    command -v node >/dev/null || apt_install nodejs || die "node is needed to assemble the single file"
+    node --input-type=module - "$DIST" <<'NODE'
+import { readFileSync, writeFileSync } from "node:fs";
+import { createHash } from "node:crypto";
+import { join } from "node:path";
+
+const dist = process.argv[2];
+const read = (name) => readFileSync(join(dist, name));
+const fail = (why) => {
+  console.error(`build.sh single: ${why}`);
+  process.exit(1);
+};
+// Text that would end an inline element early.
+const inlineSafe = (text, tag) => {
+  if (new RegExp(`</${tag}`, "i").test(text)) fail(`${tag} text contains "</${tag}"`);
+  if (tag === "script" && text.includes("<!--")) fail('script text contains "<!--"');
+  return text;
+};
+const sha256 = (text) => `'sha256-${createHash("sha256").update(text, "utf8").digest("base64")}'`;
+
+let html = read("index.html").toString("utf8");
+const app = inlineSafe(read("app.js").toString("utf8"), "script");
+const css = inlineSafe(read("style.css").toString("utf8"), "style");
+const glue = read("pkg/chiroptic.js").toString("base64");
+const wasm = read("pkg/chiroptic_bg.wasm").toString("base64");
+
+const importmap = JSON.stringify({ imports: { "./pkg/chiroptic.js": `data:text/javascript;base64,${glue}` } });
+const policy = [
+  "default-src 'none'",
+  `script-src ${sha256(importmap)} ${sha256(app)} data: 'wasm-unsafe-eval'`,
+  "style-src 'unsafe-inline'",
+  "img-src data: blob:",
+  "connect-src 'none'",
+  "object-src 'none'",
+  "base-uri 'none'",
+  "form-action 'none'",
+].join("; ");
+
+const swap = (pattern, replacement, what) => {
+  if (!pattern.test(html)) fail(`dist/index.html has no ${what}`);
+  html = html.replace(pattern, () => replacement);
+};
+swap(/<meta http-equiv="Content-Security-Policy" content="[^"]*">/, `<meta http-equiv="Content-Security-Policy" content="${policy}">`, "CSP meta tag");
+swap(/<link rel="stylesheet" href="style.css">/, `<style>
+${css}</style>`, "stylesheet link");
+swap(/<script type="module" src="app.js"><\/script>/, `<script type="importmap">${importmap}</script>
+<script type="module">${app}</script>`, "module script");
+swap(/<\/body>/, `<script type="application/octet-stream" id="chiroptic-wasm">${wasm}</script>
+</body>`, "</body>");
+writeFileSync(join(dist, "chiroptic.html"), html);
+console.error(`build.sh single: dist/chiroptic.html (${html.length} bytes)`);
+NODE
 }
 
 serve() {
@@ -165,7 +228,7 @@ run_tests() {
     say "building the CLI (debug) the browser tests compare with"
     local page_ok=1
     cargo build --manifest-path "$ROOT/Cargo.toml" -p chiroptic --bin chiroptic || page_ok=0
-    if [ "$page_ok" -eq 1 ] && build_page; then
+    if [ "$page_ok" -eq 1 ] && build_page && build_single; then
         say "browser tests"
         rm -f "$logs/page.tap"
         if CHIROPTIC_CLI="$TARGET_DIR/debug/chiroptic" CHIROPTIC_DIST="$DIST" \
@@ -195,6 +258,7 @@ case "${1:-build}" in
     build) build_page ;;
     serve) shift; serve "$@" ;;
     test) run_tests ;;
-    -h|--help|help) sed -n '2,12p' "$0" | sed 's/^# \{0,1\}//' ;;
-    *) die "unknown command '$1' (use: build, serve [--port N], test)" ;;
+    single) build_page && build_single ;;
+    -h|--help|help) sed -n '2,15p' "$0" | sed 's/^# \{0,1\}//' ;;
+    *) die "unknown command '$1' (use: build, serve [--port N], single, test)" ;;
 esac

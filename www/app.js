@@ -6,6 +6,11 @@
 //
 // All physics, unit factors and labels come from the core (crate/src); this
 // module only converts through it.
+//
+// Around that loop: share links (the document in the URL fragment, kept in
+// step with the model), autosave in localStorage, undo/redo over snapshots
+// of the document, exports (SVG, PNG, CSV, JSON) and a wiki view that shows
+// one plot alone (`#c1.…&show=cd`).
 
 import init, * as core from "./pkg/chiroptic.js";
 
@@ -23,6 +28,9 @@ const state = {
   options: { dark: false, contributions: true, highlight: null },
   cursorX: null, // crosshair position in axis units
   solventMemory: {}, // last values of each solvent kind, restored on switching back
+  dpr: 1, // canvas pixels per CSS pixel
+  valid: false, // the document drew at the last refresh
+  wiki: null, // the plot key shown alone in the wiki view
 };
 
 // ---------------------------------------------------------------- numbers
@@ -69,6 +77,24 @@ function fmtText(v, sig = 4) {
 
 /** Rounds away binary noise after a step (0.1 + 0.2 and the like). */
 const tidy = (v) => Number(v.toPrecision(12));
+
+/**
+ * The shortest canonical value that still shows as what was typed: a value
+ * typed in a display unit converts to a 17-digit float, which would lengthen
+ * share links and files for nothing. `back` converts a canonical value to the
+ * display unit; the result reads back as `typed` to 15 significant digits
+ * (the digits a focused box shows), so nothing the person typed is lost.
+ */
+function shortest(canonical, typed, back) {
+  if (!Number.isFinite(canonical)) return canonical;
+  const want = tidyFull(typed);
+  for (let p = 1; p <= 16; p++) {
+    const c = Number(canonical.toPrecision(p));
+    const shown = safe(() => back(c));
+    if (shown !== undefined && tidyFull(shown) === want) return c;
+  }
+  return canonical;
+}
 
 // ------------------------------------------------------- the core, safely
 
@@ -344,8 +370,10 @@ function refresh() {
   const result = call(() => state.wb.update(state.doc, state.options));
   const ms = performance.now() - t0;
   if (!result) return;
+  state.valid = result.ok;
   if (result.ok) {
     coreError = null;
+    result.frames = result.frames.map(cssFrame);
     state.drawn = result;
     showResult(result);
     renderErrors();
@@ -355,7 +383,14 @@ function refresh() {
     renderErrors();
   }
   showAll();
+  edited();
   document.dispatchEvent(new CustomEvent("chiroptic:updated", { detail: { ok: result.ok, ms } }));
+}
+
+/** The core reports frames in canvas pixels; pointer and overlay work in CSS pixels. */
+function cssFrame(f) {
+  const k = state.dpr;
+  return { ...f, left: f.left / k, top: f.top / k, right: f.right / k, bottom: f.bottom / k };
 }
 
 /** Redraws the last good model with new page options (theme, highlight, size). */
@@ -363,7 +398,7 @@ function redraw() {
   if (!state.wb || !state.drawn) return refresh();
   const result = call(() => state.wb.redraw(state.options));
   if (result && result.ok) {
-    state.drawn = { ...state.drawn, frames: result.frames };
+    state.drawn = { ...state.drawn, frames: result.frames.map(cssFrame) };
     drawCrosshair();
   }
 }
@@ -536,7 +571,8 @@ function bandRows(band, i) {
     unit: () => unitLabel(state.ui.centerUnit),
     get: () => convert(() => core.convert_position(band.center_nm, "nm", state.ui.centerUnit)),
     set: (v) => {
-      band.center_nm = convert(() => core.convert_position(v, state.ui.centerUnit, "nm"));
+      const u = state.ui.centerUnit;
+      band.center_nm = shortest(convert(() => core.convert_position(v, u, "nm")), v, (c) => core.convert_position(c, "nm", u));
     },
     step: () => CENTRE_STEP[state.ui.centerUnit],
     range: centreRange,
@@ -553,7 +589,9 @@ function bandRows(band, i) {
     unit: () => unitLabel(state.ui.widthUnit),
     get: () => convert(() => core.convert_width(band.fwhm_cm1, "cm-1", state.ui.widthUnit, band.center_nm)),
     set: (v) => {
-      band.fwhm_cm1 = convert(() => core.convert_width(v, state.ui.widthUnit, "cm-1", band.center_nm));
+      const u = state.ui.widthUnit;
+      const cm1 = convert(() => core.convert_width(v, u, "cm-1", band.center_nm));
+      band.fwhm_cm1 = shortest(cm1, v, (c) => core.convert_width(c, "cm-1", u, band.center_nm));
     },
     step: () => WIDTH_STEP[state.ui.widthUnit],
     range: () => widthRange(band),
@@ -570,7 +608,9 @@ function bandRows(band, i) {
       unit: () => unitLabel(state.ui.widthUnit),
       get: () => convert(() => core.convert_width(band.lorentz_fwhm_cm1, "cm-1", state.ui.widthUnit, band.center_nm)),
       set: (v) => {
-        band.lorentz_fwhm_cm1 = convert(() => core.convert_width(v, state.ui.widthUnit, "cm-1", band.center_nm));
+        const u = state.ui.widthUnit;
+        const cm1 = convert(() => core.convert_width(v, u, "cm-1", band.center_nm));
+        band.lorentz_fwhm_cm1 = shortest(cm1, v, (c) => core.convert_width(c, "cm-1", u, band.center_nm));
       },
       step: () => WIDTH_STEP[state.ui.widthUnit],
       range: () => widthRange(band),
@@ -724,7 +764,9 @@ function bindSample() {
     unit: () => state.ui.concUnit,
     get: () => convert(() => core.convert_concentration(sample().concentration_mol_per_l, "mol/L", state.ui.concUnit, mass())),
     set: (v) => {
-      sample().concentration_mol_per_l = convert(() => core.convert_concentration(v, state.ui.concUnit, "mol/L", mass()));
+      const u = state.ui.concUnit;
+      const mol = convert(() => core.convert_concentration(v, u, "mol/L", mass()));
+      sample().concentration_mol_per_l = shortest(mol, v, (c) => core.convert_concentration(c, "mol/L", u, mass()));
     },
     step: relStep,
     range: () => {
@@ -742,7 +784,8 @@ function bindSample() {
     unit: () => state.ui.pathUnit,
     get: () => convert(() => core.convert_path(sample().path_length_cm, "cm", state.ui.pathUnit)),
     set: (v) => {
-      sample().path_length_cm = convert(() => core.convert_path(v, state.ui.pathUnit, "cm"));
+      const u = state.ui.pathUnit;
+      sample().path_length_cm = shortest(convert(() => core.convert_path(v, u, "cm")), v, (c) => core.convert_path(c, "cm", u));
     },
     step: relStep,
     range: () => {
@@ -768,7 +811,9 @@ function bindSample() {
       if (v === undefined) delete sample().molar_mass_g_per_mol;
       else sample().molar_mass_g_per_mol = v;
       if (shown !== undefined && v !== undefined) {
-        sample().concentration_mol_per_l = core.convert_concentration(shown, state.ui.concUnit, "mol/L", v);
+        const u = state.ui.concUnit;
+        const mol = core.convert_concentration(shown, u, "mol/L", v);
+        sample().concentration_mol_per_l = shortest(mol, shown, (c) => core.convert_concentration(c, "mol/L", u, v));
       }
       // Without a molar mass the concentration can only be shown per mole.
       if (massUnit && v === undefined) {
@@ -950,17 +995,23 @@ function bindWindow() {
   });
 
   const axis = () => state.drawn?.axis_unit ?? "nm";
+  // Read without creating an empty view (that would count as an edit).
+  const shownNm = () => {
+    const nm = state.doc.view?.range_nm ?? state.drawn?.range_nm;
+    return nm ? [...nm].sort((a, b) => a - b) : undefined;
+  };
+  // The left end is the smaller axis value; in nm that is the shorter wavelength.
+  const nmIndex = (k) => (axis() === "nm" ? k : 1 - k);
   const end = (k) => {
-    const nm = view().range_nm ?? state.drawn?.range_nm;
-    if (!nm) return undefined;
-    // The left end is the smaller axis value; in nm that is the shorter wavelength.
-    const xs = nm.map((v) => safe(() => core.convert_position(v, "nm", axis())));
-    return k === 0 ? Math.min(...xs) : Math.max(...xs);
+    const nm = shownNm();
+    return nm ? safe(() => core.convert_position(nm[nmIndex(k)], "nm", axis())) : undefined;
   };
   const setEnd = (k) => (v) => {
-    const other = end(1 - k);
-    const nm = [v, other].map((x) => core.convert_position(x, axis(), "nm"));
-    view().range_nm = nm.sort((a, b) => a - b);
+    const a = axis();
+    const typed = shortest(core.convert_position(v, a, "nm"), v, (c) => core.convert_position(c, "nm", a));
+    // The other end keeps its stored wavelength exactly.
+    const other = shownNm()?.[nmIndex(1 - k)] ?? typed;
+    view().range_nm = [typed, other].sort((x, y) => x - y);
   };
   const rangeStep = () => ({ nm: 10, "cm-1": 1000, ev: 0.1 })[axis()];
   bindNumber({ input: $("range-from"), label: "", canonical: false, unit: () => unitLabel(axis()), get: () => end(0), set: setEnd(0), step: rangeStep, range: () => [0, 1] });
@@ -1024,17 +1075,26 @@ function layoutPlots(on) {
 
 // ---------------------------------------------------- canvases and crosshair
 
+/** Gives each canvas devicePixelRatio pixels per CSS pixel, so plots are sharp on HiDPI screens. */
 function sizeCanvases() {
   let changed = false;
+  const dpr = Math.min(4, Math.max(1, window.devicePixelRatio || 1));
+  if (dpr !== state.dpr) {
+    state.dpr = dpr;
+    state.options.pixel_ratio = dpr;
+    changed = true;
+  }
   document.querySelectorAll(".canvas-box").forEach((box) => {
     const w = Math.floor(box.clientWidth);
     const h = Math.floor(box.clientHeight);
+    if (!w || !h) return;
     // Print scales the drawn bitmap at this shape (see style.css).
-    if (w && h) box.style.setProperty("--aspect", String(w / h));
+    box.style.setProperty("--aspect", String(w / h));
+    const [pw, ph] = [Math.round(w * dpr), Math.round(h * dpr)];
     for (const c of box.querySelectorAll("canvas")) {
-      if (c.width !== w || c.height !== h) {
-        c.width = w;
-        c.height = h;
+      if (c.width !== pw || c.height !== ph) {
+        c.width = pw;
+        c.height = ph;
         changed = true;
       }
     }
@@ -1068,7 +1128,10 @@ function drawCrosshair() {
   for (const key of PLOT_KEYS) {
     const overlay = document.querySelector(`.plot[data-plot="${key}"] canvas.overlay`);
     const ctx = overlay.getContext("2d");
+    ctx.setTransform(1, 0, 0, 1, 0, 0);
     ctx.clearRect(0, 0, overlay.width, overlay.height);
+    // Drawn in CSS pixels, at the canvas's resolution.
+    ctx.setTransform(state.dpr, 0, 0, state.dpr, 0, 0);
     const f = frameOf(key);
     if (!f) continue;
     const ink = getComputedStyle(document.documentElement).getPropertyValue("--ink").trim() || "#000";
@@ -1166,7 +1229,8 @@ function bindPlots() {
       if (!d || !f) return drawCrosshair();
       if (Math.abs(d.px - d.startPx) < 6) return drawCrosshair();
       const axis = state.drawn.axis_unit;
-      const nm = [xAt(f, d.startPx), xAt(f, d.px)].map((x) => core.convert_position(x, axis, "nm"));
+      // A pixel is about a thousandth of the window: six digits say all of it.
+      const nm = [xAt(f, d.startPx), xAt(f, d.px)].map((x) => Number(core.convert_position(x, axis, "nm").toPrecision(6)));
       view().range_nm = nm.sort((a, b) => a - b);
       refresh();
     });
@@ -1194,7 +1258,11 @@ function bindPlots() {
 // ------------------------------------------------------------------- files
 
 function download(name, text, type) {
-  const url = URL.createObjectURL(new Blob([text], { type }));
+  downloadBlob(name, new Blob([text], { type }));
+}
+
+function downloadBlob(name, blob) {
+  const url = URL.createObjectURL(blob);
   const a = el("a", { href: url, download: name });
   document.body.append(a);
   a.click();
@@ -1220,6 +1288,7 @@ function bindFiles() {
     if (text) download(`${fileStem()}.csv`, text, "text/csv");
   });
   $("open-file").addEventListener("click", () => $("file-input").click());
+  $("notice-close").addEventListener("click", () => showNotice(null));
   $("file-input").addEventListener("change", async () => {
     const file = $("file-input").files[0];
     $("file-input").value = "";
@@ -1241,6 +1310,7 @@ function bindFiles() {
   });
   $("doc-title").addEventListener("input", () => {
     state.doc.title = $("doc-title").value;
+    edited();
   });
 }
 
@@ -1309,7 +1379,7 @@ function bindTheme() {
   });
 }
 
-// -------------------------------------------------------------------- start
+// -------------------------------------------------------------- band table
 
 function bindBandTable() {
   $("add-band").addEventListener("click", addBand);
@@ -1329,22 +1399,470 @@ function bindBandTable() {
   });
 }
 
+// ------------------------------------------------------------- share links
+
+/** The address fragment: the link, then page options after '&' (`&show=cd`). */
+function readFragment() {
+  const raw = location.hash.replace(/^#/, "");
+  const [link, ...rest] = raw.split("&");
+  const options = {};
+  for (const part of rest) {
+    const i = part.indexOf("=");
+    options[i < 0 ? part : part.slice(0, i)] = i < 0 ? "" : part.slice(i + 1);
+  }
+  return { link, options };
+}
+
+/** A core error about a document, said in one line ("band 2 (fwhm_cm1): …"). */
+function problemText(err) {
+  let where = "";
+  const band = /^bands\[(\d+)\]\.?(.*)$/.exec(err.field ?? "");
+  if (band) where = `band ${Number(band[1]) + 1}${band[2] ? ` (${band[2]})` : ""}: `;
+  else if (err.field && err.field !== "link") where = `${err.field}: `;
+  return `${where}${err.message}`.replace(/\.$/, "").replace(/-(\d)/g, "−$1");
+}
+
+/** The link fragment (no '#') of the last model that drew, or null. */
+function currentLink() {
+  if (!state.goodDoc) return null;
+  const r = call(() => core.link_encode(state.goodDoc));
+  return r?.ok ? r.link : null;
+}
+
+/** The page's address without its fragment: where links and embeds point. */
+const pageAddress = () => location.href.split("#")[0];
+
+function shareUrl() {
+  const link = currentLink();
+  return link ? `${pageAddress()}#${link}` : null;
+}
+
+/** Opens a link that arrived while the page runs; a bad one leaves the model alone. */
+function openLink(text) {
+  const r = call(() => core.link_decode(text));
+  if (!r) return;
+  if (!r.ok) {
+    showNotice(`This link cannot be opened: ${problemText(r.error)}. Your model is unchanged.`);
+    // The address goes back to the model on screen.
+    persistSoon(0);
+    return;
+  }
+  showNotice(null);
+  loadDocument(r.doc);
+  setStatus("Opened the model of the link (Undo returns to the one before)");
+}
+
+function onHashChange() {
+  const f = readFragment();
+  // The wiki view is a page of its own.
+  if (f.options.show !== undefined) return location.reload();
+  // An emptied address is no link: the model stays (and its link comes back).
+  if (!f.link) return persistSoon(0);
+  if (f.link === state.link) return;
+  openLink(f.link);
+}
+
+function showNotice(text) {
+  $("notice-text").textContent = text ?? "";
+  $("notice").hidden = !text;
+}
+
+// --------------------------------------------------------------- autosave
+
+const AUTOSAVE_KEY = "chiroptic.autosave";
+/** Where an autosave that could not be read is set aside (nothing is thrown away). */
+const UNREADABLE_KEY = "chiroptic.autosave.unreadable";
+
+/** localStorage, or null where the browser refuses it (privacy modes, sandboxed frames). */
+function storage() {
+  try {
+    return window.localStorage ?? null;
+  } catch {
+    return null;
+  }
+}
+
+/** The autosaved document: `{ doc }`, `{ problem }` when unreadable, or `{}`. */
+function readAutosave() {
+  const st = storage();
+  let text = null;
+  try {
+    text = st?.getItem(AUTOSAVE_KEY) ?? null;
+  } catch {
+    return {};
+  }
+  if (text === null) return {};
+  const r = call(() => core.read_valid_document(text));
+  if (r?.ok) return { doc: r.doc };
+  try {
+    st.setItem(UNREADABLE_KEY, text);
+    st.removeItem(AUTOSAVE_KEY);
+  } catch {
+    // Storage full or refused: the bad value stays and is ignored again next time.
+  }
+  return { problem: r ? problemText(r.error) : "the calculation core stopped" };
+}
+
+let autosaveFailed = false;
+function writeAutosave(doc) {
+  const st = storage();
+  if (!st) return;
+  try {
+    st.setItem(AUTOSAVE_KEY, JSON.stringify(doc));
+    autosaveFailed = false;
+  } catch (e) {
+    if (autosaveFailed) return; // said once until it works again
+    autosaveFailed = true;
+    const full = e?.name === "QuotaExceededError" || e?.code === 22;
+    const why = full ? "this browser's storage for the page is full" : `the browser refused it (${e?.message ?? e})`;
+    showNotice(`Autosave stopped: ${why}. Your model is still here; save it as a file to keep it.`);
+  }
+}
+
+// The address and the autosave follow the model, a moment after the last edit.
+let persistTimer = null;
+function persistSoon(ms = 300) {
+  clearTimeout(persistTimer);
+  persistTimer = setTimeout(persist, ms);
+}
+
+function persist() {
+  if (state.wiki || !state.goodDoc) return;
+  const link = currentLink();
+  if (link) {
+    state.link = link;
+    // replaceState: no history entry per edit, and no hashchange.
+    if (location.hash.slice(1) !== link) history.replaceState(null, "", `#${link}`);
+    if ($("share-menu").open) fillShare();
+  }
+  writeAutosave(state.goodDoc);
+}
+
+// ------------------------------------------------------------ undo / redo
+
+/** Snapshots of the document (JSON); `at` is the one on screen. */
+const edits = { stack: [], at: -1, lastTime: 0, lastTarget: null, open: false };
+const MAX_UNDO = 200;
+/** Typing or dragging in one control within this time is one edit. */
+const BURST_MS = 1000;
+
+/** Called after every change to the document: history, address, autosave. */
+function edited() {
+  if (state.wiki || !state.doc) return;
+  if (state.valid) state.goodDoc = structuredClone(state.doc);
+  noteEdit();
+  persistSoon();
+}
+
+function noteEdit() {
+  const snap = JSON.stringify(state.doc);
+  if (edits.at >= 0 && snap === edits.stack[edits.at]) return;
+  const now = performance.now();
+  const target = document.activeElement;
+  const continuous = target?.tagName === "INPUT" && (isTextEntry(target) || target.type === "range");
+  if (edits.open && edits.at > 0 && continuous && target === edits.lastTarget && now - edits.lastTime < BURST_MS) {
+    edits.stack[edits.at] = snap;
+  } else {
+    edits.stack.splice(edits.at + 1);
+    edits.stack.push(snap);
+    if (edits.stack.length > MAX_UNDO) edits.stack.shift();
+    edits.at = edits.stack.length - 1;
+  }
+  Object.assign(edits, { lastTime: now, lastTarget: target, open: true });
+  syncUndoButtons();
+}
+
+function resetEdits() {
+  Object.assign(edits, { stack: [JSON.stringify(state.doc)], at: 0, open: false });
+  syncUndoButtons();
+}
+
+function syncUndoButtons() {
+  $("undo").disabled = edits.at <= 0;
+  $("redo").disabled = edits.at >= edits.stack.length - 1;
+}
+
+function stepEdit(by) {
+  const j = edits.at + by;
+  if (j < 0 || j >= edits.stack.length) return;
+  edits.at = j;
+  edits.open = false;
+  const focused = document.activeElement?.id;
+  loadDocument(JSON.parse(edits.stack[j]));
+  syncUndoButtons();
+  if (focused && $(focused) && document.activeElement !== $(focused)) $(focused).focus();
+  if (!$("plot-grid").classList.contains("stale")) setStatus(by < 0 ? "Undone" : "Redone");
+}
+
+/** A text field, where Ctrl+Z is the browser's own undo of the typed text. */
+function isTextEntry(el) {
+  if (!el) return false;
+  if (el.isContentEditable || el.tagName === "TEXTAREA") return true;
+  return el.tagName === "INPUT" && ["text", "search", "number", "url", "email", "tel", "password"].includes(el.type);
+}
+
+function bindHistory() {
+  $("undo").addEventListener("click", () => stepEdit(-1));
+  $("redo").addEventListener("click", () => stepEdit(1));
+  document.addEventListener("keydown", (e) => {
+    if (!(e.ctrlKey || e.metaKey) || e.altKey) return;
+    const k = e.key.toLowerCase();
+    const undo = k === "z" && !e.shiftKey;
+    const redo = (k === "z" && e.shiftKey) || (k === "y" && e.ctrlKey && !e.shiftKey);
+    if (!undo && !redo) return;
+    if (isTextEntry(e.target)) return;
+    e.preventDefault();
+    stepEdit(undo ? -1 : 1);
+  });
+}
+
+// ------------------------------------------------------------------ export
+
+/** A plot's size on screen in CSS pixels; a hidden plot takes a shown one's. */
+function plotCssSize(key) {
+  const size = (k) => {
+    const box = document.querySelector(`.plot[data-plot="${k}"] .canvas-box`);
+    const w = Math.floor(box?.clientWidth ?? 0);
+    const h = Math.floor(box?.clientHeight ?? 0);
+    return w >= 64 && h >= 64 ? [w, h] : null;
+  };
+  return size(key) ?? PLOT_KEYS.map(size).find(Boolean) ?? [720, 450];
+}
+
+const exportKey = () => $("export-key").checked;
+
+function exportSvg(key) {
+  const [w, h] = plotCssSize(key);
+  let text;
+  try {
+    text = call(() => state.wb.svg(key, w, h, exportKey()));
+  } catch (e) {
+    return setStatus(`Cannot export the ${shortTitle(key)} plot: ${e.message}`, true);
+  }
+  if (text) download(`${fileStem()}-${key}.svg`, text, "image/svg+xml");
+}
+
+function exportPng(key, scale) {
+  const [w, h] = plotCssSize(key);
+  const canvas = el("canvas", { width: Math.round(w * scale), height: Math.round(h * scale) });
+  try {
+    call(() => state.wb.draw_plot(key, canvas, scale, exportKey()));
+  } catch (e) {
+    return setStatus(`Cannot export the ${shortTitle(key)} plot: ${e.message}`, true);
+  }
+  canvas.toBlob((blob) => {
+    if (!blob) return setStatus(`The browser could not make a ${canvas.width} × ${canvas.height} picture`, true);
+    downloadBlob(`${fileStem()}-${key}@${scale}x.png`, blob);
+  }, "image/png");
+}
+
+function bindExport() {
+  const rows = state.catalog.plots.map((p) => {
+    const button = (text, label, id, fn) => {
+      const b = el("button", { type: "button", textContent: text, id });
+      b.setAttribute("aria-label", label);
+      b.addEventListener("click", fn);
+      return el("td", {}, b);
+    };
+    const name = shortTitle(p.key);
+    return el(
+      "tr",
+      {},
+      el("th", { scope: "row", textContent: name }),
+      button("SVG", `${name} plot as SVG`, `export-${p.key}-svg`, () => exportSvg(p.key)),
+      ...[1, 2, 4].map((k) => button(`${k}×`, `${name} plot as PNG at ${k}×`, `export-${p.key}-png-${k}`, () => exportPng(p.key, k))),
+    );
+  });
+  $("export-rows").replaceChildren(...rows);
+  $("export-menu").addEventListener("toggle", () => {
+    if (!$("export-menu").open) return;
+    const [w, h] = plotCssSize(state.drawn?.plots?.[0] ?? "cd");
+    $("export-size").textContent = `Light figures at the plot’s size on screen (${w} × ${h} px); PNG at 2× and 4× has that many more pixels per side.`;
+  });
+  $("save-json-too").addEventListener("click", () => $("save-json").click());
+}
+
+// ------------------------------------------------------------ share panel
+
+function fillShare() {
+  const url = shareUrl();
+  $("link-text").value = url ?? "";
+  $("link-length").textContent = url ? `${url.length} characters` : "the model has an error: no link";
+  fillEmbed();
+}
+
+function embedSize(id, fallback) {
+  const v = Number($(id).value);
+  return Number.isInteger(v) && v >= 100 && v <= 4000 ? v : fallback;
+}
+
+function fillEmbed() {
+  const link = currentLink();
+  const key = $("embed-plot").value || "cd";
+  const w = embedSize("embed-width", 640);
+  const h = embedSize("embed-height", 400);
+  const title = `${plotTitle(key)}: ${state.goodDoc?.title || "chiroptic model"}`.replace(/[&"<>]/g, (c) => `&#${c.charCodeAt(0)};`);
+  $("embed-text").value = link
+    ? `<iframe src="${pageAddress()}#${link}&show=${key}" width="${w}" height="${h}" style="border:0" loading="lazy" title="${title}"></iframe>`
+    : "";
+  $("embed-note").hidden = false;
+  if (location.protocol === "file:") {
+    $("embed-status").textContent = "This page is opened from a file: the embed code points at that file. Put the page on your wiki’s server for others to see it.";
+  }
+}
+
+/** Copies through the clipboard API, or selects the text for Ctrl+C where the browser refuses. */
+async function copyText(text, field, status) {
+  field.value = text;
+  const refused = () => {
+    field.focus();
+    field.select();
+    status.textContent = "The browser did not let the page copy: the text is selected, press Ctrl+C (⌘C on a Mac).";
+  };
+  if (!text) return (status.textContent = "Nothing to copy: the model has an error.");
+  if (!navigator.clipboard?.writeText) return refused();
+  try {
+    // A browser that asks for permission may never answer: give up after a moment.
+    await Promise.race([
+      navigator.clipboard.writeText(text),
+      new Promise((_, no) => setTimeout(() => no(new Error("no answer")), 1500)),
+    ]);
+    status.textContent = `Copied (${text.length} characters).`;
+  } catch {
+    refused();
+  }
+}
+
+function bindShare() {
+  $("embed-plot").replaceChildren(...state.catalog.plots.map((p) => el("option", { value: p.key, textContent: p.title })));
+  $("share-menu").addEventListener("toggle", () => {
+    if (!$("share-menu").open) return;
+    const shown = state.drawn?.plots ?? PLOT_KEYS;
+    if (!shown.includes($("embed-plot").value)) $("embed-plot").value = shown[0] ?? "cd";
+    $("copy-status").textContent = "";
+    $("embed-status").textContent = "";
+    fillShare();
+  });
+  $("copy-link").addEventListener("click", () => {
+    fillShare();
+    copyText(shareUrl(), $("link-text"), $("copy-status"));
+  });
+  $("copy-embed").addEventListener("click", () => {
+    fillEmbed();
+    copyText($("embed-text").value, $("embed-text"), $("embed-status"));
+  });
+  for (const id of ["embed-plot", "embed-width", "embed-height"]) $(id).addEventListener("input", fillEmbed);
+  // The text fields select all on focus, for copying by hand.
+  for (const id of ["link-text", "embed-text"]) $(id).addEventListener("focus", () => $(id).select());
+}
+
+/** Menus close on Escape and on a click elsewhere. */
+function bindMenus() {
+  const menus = [...document.querySelectorAll("details.menu")];
+  document.addEventListener("pointerdown", (e) => {
+    for (const m of menus) if (m.open && !m.contains(e.target)) m.open = false;
+  });
+  document.addEventListener("keydown", (e) => {
+    if (e.key !== "Escape") return;
+    for (const m of menus) {
+      if (m.open) {
+        m.open = false;
+        m.querySelector("summary").focus();
+      }
+    }
+  });
+  // One menu open at a time.
+  for (const m of menus) {
+    m.addEventListener("toggle", () => {
+      if (m.open) for (const other of menus) if (other !== m) other.open = false;
+    });
+  }
+}
+
+// --------------------------------------------------------------- wiki view
+
+/** `#c1.…&show=cd`: one plot filling the frame, no controls, nothing saved. */
+function startWiki(fragment) {
+  const key = fragment.options.show;
+  state.wiki = key;
+  document.documentElement.classList.add("wiki");
+  if (!PLOT_KEYS.includes(key)) {
+    return showNotice(`This view cannot be shown: unknown plot “${key}” after “&show=” (use cd, ord, abs or index).`);
+  }
+  if (!fragment.link) return showNotice("This view cannot be shown: the address holds no share link before “&show=”.");
+  const r = call(() => core.link_decode(fragment.link));
+  if (!r) return;
+  if (!r.ok) return showNotice(`This plot cannot be shown: ${problemText(r.error)}.`);
+  const doc = r.doc;
+  doc.view = { ...(doc.view ?? {}), plots: [key] };
+  if (doc.title) document.title = `${plotTitle(key)} · ${doc.title}`;
+  state.options.legend = true;
+  state.doc = doc;
+  layoutPlots([key]);
+  sizeCanvases();
+  refresh();
+  new ResizeObserver(onResize).observe($("plot-grid"));
+  window.addEventListener("hashchange", () => location.reload());
+}
+
+// ------------------------------------------------------------------- start
+
+/** The wasm module's bytes when the single offline file carries them inline. */
+function inlinedWasm() {
+  const holder = document.getElementById("chiroptic-wasm");
+  if (!holder) return undefined;
+  const bin = atob(holder.textContent.trim());
+  const bytes = new Uint8Array(bin.length);
+  for (let i = 0; i < bin.length; i++) bytes[i] = bin.charCodeAt(i);
+  return { module_or_path: bytes };
+}
+
 async function main() {
-  await init();
+  await init(inlinedWasm());
   state.catalog = core.catalog();
   const demo = core.demo_document();
   if (demo.ok === false) throw new Error(`the built-in demo does not load: ${demo.error.message}`);
   const canvases = PLOT_KEYS.map((k) => $(`plot-${k}`));
   state.wb = new core.Workbench(...canvases);
   bindTheme();
+  const fragment = readFragment();
+  if (fragment.options.show !== undefined) {
+    startWiki(fragment);
+    document.documentElement.dataset.ready = "true";
+    return;
+  }
   bindWindow();
   bindSample();
   bindBandTable();
   bindPlots();
   bindFiles();
+  bindHistory();
+  bindExport();
+  bindShare();
+  bindMenus();
   renderConventions();
   new ResizeObserver(onResize).observe($("plot-grid"));
-  loadDocument(demo);
+
+  // A link in the address wins; else the autosave; else the demo.
+  const notes = [];
+  let doc = null;
+  let from = "demo";
+  if (fragment.link) {
+    const r = call(() => core.link_decode(fragment.link));
+    if (r?.ok) [doc, from] = [r.doc, "link"];
+    else if (r) notes.push(`This link cannot be opened: ${problemText(r.error)}.`);
+  }
+  if (!doc) {
+    const saved = readAutosave();
+    if (saved.doc) [doc, from] = [saved.doc, "autosave"];
+    if (saved.problem) notes.push(`The model autosaved in this browser could not be read (${saved.problem}); it was set aside.`);
+    if (notes.length) notes.push(saved.doc ? "Showing your autosaved model instead." : "Showing the invented demo instead.");
+  }
+  loadDocument(doc ?? demo);
+  resetEdits();
+  if (notes.length) showNotice(notes.join(" "));
+  if (from === "autosave" && !$("plot-grid").classList.contains("stale")) setStatus("Restored the model autosaved in this browser");
+  window.addEventListener("hashchange", onHashChange);
   document.documentElement.dataset.ready = "true";
 }
 

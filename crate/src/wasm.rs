@@ -12,14 +12,17 @@ use crate::document::{Document, ViewDoc};
 use crate::error::{Error, ErrorKind};
 use crate::figures::{self, PlotFrame, PlotKind, PlotRequest};
 use crate::lines::{rotation_at_lines, STANDARD_LINES};
+use crate::link;
 use crate::model::Model;
 use crate::spectra::{evaluate, Grid, Spectra};
 use crate::table::spectra_csv;
 use crate::units::{self, AxisUnit, CdUnit, ConcentrationUnit, OrdUnit};
-use fast_canvas::{FastCanvas, TextSizes};
+use fast_canvas::{DrawnText, FastCanvas, TextSizes};
 use plotters::prelude::IntoDrawingArea;
 use serde::Serialize;
 use wasm_bindgen::prelude::*;
+use std::cell::RefCell;
+use std::collections::HashMap;
 use web_sys::HtmlCanvasElement;
 
 /// The invented demo, embedded at build time so that the page (and the single
@@ -109,12 +112,7 @@ pub fn demo_document() -> JsValue {
 #[wasm_bindgen]
 pub fn parse_document(text: &str) -> JsValue {
     match Document::from_json(text) {
-        Ok(doc) => {
-            let out = js_sys::Object::new();
-            let _ = js_sys::Reflect::set(&out, &"ok".into(), &JsValue::TRUE);
-            let _ = js_sys::Reflect::set(&out, &"doc".into(), &document_to_js(&doc));
-            out.into()
-        }
+        Ok(doc) => ok_doc(&doc),
         Err(e) => error_js(e),
     }
 }
@@ -125,6 +123,59 @@ pub fn parse_document(text: &str) -> JsValue {
 pub fn document_json(doc: JsValue) -> Result<String, JsError> {
     let doc = document_from_js(doc).map_err(|e| JsError::new(&e.to_string()))?;
     Ok(doc.to_json_pretty())
+}
+
+fn ok_doc(doc: &Document) -> JsValue {
+    let out = js_sys::Object::new();
+    let _ = js_sys::Reflect::set(&out, &"ok".into(), &JsValue::TRUE);
+    let _ = js_sys::Reflect::set(&out, &"doc".into(), &document_to_js(doc));
+    out.into()
+}
+
+/// Reads a document the page saved itself (autosave): it must parse and
+/// validate as a whole, or `{ ok: false, error }`.
+#[wasm_bindgen]
+pub fn read_valid_document(text: &str) -> JsValue {
+    match Document::from_json(text).and_then(|doc| link::validate(&doc).map(|_| doc)) {
+        Ok(doc) => ok_doc(&doc),
+        Err(e) => error_js(e),
+    }
+}
+
+/// The share-link fragment (`c1.…`, no `#`) for a document that validates:
+/// `{ ok, link }` or `{ ok: false, error }`.
+#[wasm_bindgen]
+pub fn link_encode(doc: JsValue) -> JsValue {
+    let made = document_from_js(doc).and_then(|doc| {
+        link::validate(&doc)?;
+        link::encode(&doc)
+    });
+    match made {
+        Ok(text) => {
+            let out = js_sys::Object::new();
+            let _ = js_sys::Reflect::set(&out, &"ok".into(), &JsValue::TRUE);
+            let _ = js_sys::Reflect::set(&out, &"link".into(), &JsValue::from_str(&text));
+            out.into()
+        }
+        Err(e) => error_js(e),
+    }
+}
+
+/// Opens a share link (fragment, `#fragment` or whole URL; page options after
+/// `&` are ignored here): `{ ok, doc }` or `{ ok: false, error }`. The codec
+/// caps the length and the inflated size before doing any real work.
+#[wasm_bindgen]
+pub fn link_decode(text: &str) -> JsValue {
+    match link::decode(text) {
+        Ok(doc) => ok_doc(&doc),
+        Err(e) => error_js(e),
+    }
+}
+
+/// Longest link the codec reads, for the page's own early check.
+#[wasm_bindgen]
+pub fn link_max_chars() -> usize {
+    link::MAX_LINK_CHARS
 }
 
 #[derive(Serialize)]
@@ -371,6 +422,25 @@ struct DrawOptions {
     contributions: Option<bool>,
     /// Band drawn emphasised (the row the user is on).
     highlight: Option<usize>,
+    /// Canvas pixels per CSS pixel (devicePixelRatio), for sharp HiDPI plots.
+    pixel_ratio: Option<f64>,
+    /// A key naming the traces (the wiki view, which has no band list).
+    legend: bool,
+}
+
+/// Largest pixel ratio the page may ask for (PNG export at 4x, HiDPI screens).
+const MAX_PIXEL_RATIO: f64 = 8.0;
+
+fn plot_kind(key: &str) -> Result<PlotKind, JsError> {
+    PlotKind::parse(key).ok_or_else(|| JsError::new(&format!("unknown plot \"{key}\" (use cd, ord, abs or index)")))
+}
+
+fn checked_ratio(r: f64) -> Result<f64, JsError> {
+    if r.is_finite() && r > 0.0 && r <= MAX_PIXEL_RATIO {
+        Ok(r)
+    } else {
+        Err(JsError::new(&format!("pixel ratio must lie in (0, {MAX_PIXEL_RATIO}] (got {r})")))
+    }
 }
 
 /// The last model that validated and drew: what readouts and exports use.
@@ -386,6 +456,9 @@ pub struct Workbench {
     current: Option<Current>,
     options: DrawOptions,
     text_sizes: TextSizes,
+    /// The text drawn on each canvas by the last redraw (tests compare it
+    /// with the SVG export).
+    drawn_text: RefCell<HashMap<&'static str, Vec<String>>>,
 }
 
 #[derive(Serialize)]
@@ -440,6 +513,7 @@ impl Workbench {
             current: None,
             options: DrawOptions::default(),
             text_sizes: TextSizes::default(),
+            drawn_text: RefCell::new(HashMap::new()),
         }
     }
 
@@ -518,6 +592,40 @@ impl Workbench {
     pub fn csv(&self) -> Option<String> {
         self.current.as_ref().map(|c| spectra_csv(&c.spectra))
     }
+
+    /// One plot of the last good model as SVG, `width` x `height` CSS
+    /// pixels, light, nothing emphasised: the figure code of the canvas
+    /// (`figures::svg`), so at the canvas's size it has the canvas's ticks.
+    pub fn svg(&self, plot: &str, width: u32, height: u32, legend: bool) -> Result<String, JsError> {
+        let kind = plot_kind(plot)?;
+        let cur = self.current.as_ref().ok_or_else(|| JsError::new("no plot has been drawn yet"))?;
+        let mut req = self.export_request(kind, &cur.spectra, &cur.view);
+        req.legend = legend;
+        req.pixel_ratio = 1.0;
+        figures::svg(&req, width, height).map_err(|e| JsError::new(&e.to_string()))
+    }
+
+    /// Draws one plot of the last good model onto `canvas` (any canvas, e.g.
+    /// an offscreen one for PNG export) at `pixel_ratio` canvas pixels per
+    /// CSS pixel, light, nothing emphasised. Returns its frame.
+    pub fn draw_plot(&self, plot: &str, canvas: HtmlCanvasElement, pixel_ratio: f64, legend: bool) -> Result<JsValue, JsError> {
+        let kind = plot_kind(plot)?;
+        let ratio = checked_ratio(pixel_ratio)?;
+        let cur = self.current.as_ref().ok_or_else(|| JsError::new("no plot has been drawn yet"))?;
+        let mut req = self.export_request(kind, &cur.spectra, &cur.view);
+        req.legend = legend;
+        req.pixel_ratio = ratio;
+        let backend = FastCanvas::new(canvas, self.text_sizes.clone(), None)
+            .ok_or_else(|| JsError::new("the browser gave no 2D canvas context"))?;
+        let frame = figures::draw(&backend.into_drawing_area(), &req).map_err(|e| JsError::new(&e.to_string()))?;
+        Ok(to_js(&frame_out(kind, &frame)))
+    }
+
+    /// Every text the last redraw put on a plot's canvas, in drawing order.
+    pub fn drawn_text(&self, plot: &str) -> Result<Vec<String>, JsError> {
+        let kind = plot_kind(plot)?;
+        Ok(self.drawn_text.borrow().get(kind.key()).cloned().unwrap_or_default())
+    }
 }
 
 impl Workbench {
@@ -550,9 +658,19 @@ impl Workbench {
         req.dark = self.options.dark;
         req.show_contributions = self.options.contributions.unwrap_or(true);
         req.highlight = self.options.highlight.filter(|i| *i < spectra.bands.len());
-        // No key: band colours are in the band list, and the caption names the
-        // index traces (a key would also cost a page layout per entry).
-        req.legend = false;
+        // No key on the workbench: band colours are in the band list and the
+        // caption names the index traces. The wiki view asks for one.
+        req.legend = self.options.legend;
+        req.pixel_ratio = self.options.pixel_ratio.filter(|r| r.is_finite() && *r > 0.0).unwrap_or(1.0).min(MAX_PIXEL_RATIO);
+        req
+    }
+
+    /// The request for an export: as on screen, but light (for paper and
+    /// wikis) and with no band emphasised.
+    fn export_request<'a>(&self, kind: PlotKind, spectra: &'a Spectra, view: &View) -> PlotRequest<'a> {
+        let mut req = self.request(kind, spectra, view);
+        req.dark = false;
+        req.highlight = None;
         req
     }
 
@@ -562,9 +680,11 @@ impl Workbench {
             if !view.plots.contains(kind) || canvas.width() == 0 || canvas.height() == 0 {
                 continue;
             }
-            let backend = FastCanvas::new(canvas.clone(), self.text_sizes.clone())
+            let texts = DrawnText::default();
+            let backend = FastCanvas::new(canvas.clone(), self.text_sizes.clone(), Some(texts.clone()))
                 .ok_or_else(|| Error::new(ErrorKind::Io, "figure", "the browser gave no 2D canvas context"))?;
             let frame = figures::draw(&backend.into_drawing_area(), &self.request(*kind, spectra, view))?;
+            self.drawn_text.borrow_mut().insert(kind.key(), texts.take());
             frames.push((*kind, frame));
         }
         Ok(frames)
@@ -581,22 +701,23 @@ impl Workbench {
             cd_unit: view.cd_unit.key(),
             ord_unit: view.ord_unit.key(),
             plots: view.plots.iter().map(|k| k.key()).collect(),
-            frames: frames
-                .iter()
-                .map(|(k, f)| FrameOut {
-                    plot: k.key(),
-                    left: f.left,
-                    top: f.top,
-                    right: f.right,
-                    bottom: f.bottom,
-                    x_range: f.x_range,
-                    y_range: f.y_range,
-                    y2_range: f.y2_range,
-                })
-                .collect(),
+            frames: frames.iter().map(|(k, f)| frame_out(*k, f)).collect(),
             lines,
             labels: vec![("cd", view.cd_unit.label()), ("ord", view.ord_unit.label())],
         }
+    }
+}
+
+fn frame_out(kind: PlotKind, f: &PlotFrame) -> FrameOut {
+    FrameOut {
+        plot: kind.key(),
+        left: f.left,
+        top: f.top,
+        right: f.right,
+        bottom: f.bottom,
+        x_range: f.x_range,
+        y_range: f.y_range,
+        y2_range: f.y2_range,
     }
 }
 
@@ -622,19 +743,30 @@ mod fast_canvas {
     /// Entries kept before the memory starts over (labels of a session are few).
     const MAX_REMEMBERED: usize = 4096;
 
+    /// Collects the text a drawing puts on its canvas.
+    #[derive(Clone, Default)]
+    pub struct DrawnText(Rc<RefCell<Vec<String>>>);
+
+    impl DrawnText {
+        pub fn take(&self) -> Vec<String> {
+            std::mem::take(&mut *self.0.borrow_mut())
+        }
+    }
+
     pub struct FastCanvas {
         inner: CanvasBackend,
         context: CanvasRenderingContext2d,
         sizes: TextSizes,
+        texts: Option<DrawnText>,
     }
 
     type Failure = DrawingErrorKind<<CanvasBackend as DrawingBackend>::ErrorType>;
 
     impl FastCanvas {
-        pub fn new(canvas: HtmlCanvasElement, sizes: TextSizes) -> Option<FastCanvas> {
+        pub fn new(canvas: HtmlCanvasElement, sizes: TextSizes, texts: Option<DrawnText>) -> Option<FastCanvas> {
             let context = canvas.get_context("2d").ok()??.dyn_into::<CanvasRenderingContext2d>().ok()?;
             let inner = CanvasBackend::with_canvas_object(canvas)?;
-            Some(FastCanvas { inner, context, sizes })
+            Some(FastCanvas { inner, context, sizes, texts })
         }
     }
 
@@ -702,6 +834,9 @@ mod fast_canvas {
             self.inner.fill_polygon(vert, style)
         }
         fn draw_text<T: BackendTextStyle>(&mut self, text: &str, style: &T, pos: BackendCoord) -> Result<(), Failure> {
+            if let Some(texts) = &self.texts {
+                texts.0.borrow_mut().push(text.to_string());
+            }
             self.inner.draw_text(text, style, pos)
         }
         fn estimate_text_size<T: BackendTextStyle>(&self, text: &str, style: &T) -> Result<(u32, u32), Failure> {

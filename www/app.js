@@ -78,20 +78,25 @@ function fmtText(v, sig = 4) {
 /** Rounds away binary noise after a step (0.1 + 0.2 and the like). */
 const tidy = (v) => Number(v.toPrecision(12));
 
+/** Significant digits of a value converted between units, as stored and as shown on focus. */
+const CONVERTED_DIGITS = 12;
+const tidyConverted = (v) => Number(v.toPrecision(CONVERTED_DIGITS));
+
 /**
  * The shortest canonical value that still shows as what was typed: a value
  * typed in a display unit converts to a 17-digit float, which would lengthen
  * share links and files for nothing. `back` converts a canonical value to the
- * display unit; the result reads back as `typed` to 15 significant digits
- * (the digits a focused box shows), so nothing the person typed is lost.
+ * display unit; the result reads back as `typed` to CONVERTED_DIGITS
+ * significant digits (the digits a focused box shows), so what the person
+ * typed comes back as typed.
  */
 function shortest(canonical, typed, back) {
   if (!Number.isFinite(canonical)) return canonical;
-  const want = tidyFull(typed);
-  for (let p = 1; p <= 16; p++) {
+  const want = tidyConverted(typed);
+  for (let p = 1; p <= 17; p++) {
     const c = Number(canonical.toPrecision(p));
     const shown = safe(() => back(c));
-    if (shown !== undefined && tidyFull(shown) === want) return c;
+    if (shown !== undefined && tidyConverted(shown) === want) return c;
   }
   return canonical;
 }
@@ -205,13 +210,16 @@ function safeGet(field) {
   }
 }
 
-/** The full value while a box has the focus: every digit the document holds. */
+/**
+ * The full value while a box has the focus: every digit the document holds,
+ * or for a value converted to a display unit its first CONVERTED_DIGITS
+ * (the conversion leaves binary noise below them).
+ */
 function fullText(field) {
   const v = safeGet(field);
-  return v === undefined || v === null ? "" : String(tidyFull(v));
+  if (v === undefined || v === null) return "";
+  return String(field.canonical ? v : tidyConverted(v));
 }
-// Display-unit conversions leave binary noise in the last digit or two.
-const tidyFull = (v) => Number(v.toPrecision(15));
 
 function syncSlider(field) {
   const { slider } = field;
@@ -1419,7 +1427,8 @@ function problemText(err) {
   const band = /^bands\[(\d+)\]\.?(.*)$/.exec(err.field ?? "");
   if (band) where = `band ${Number(band[1]) + 1}${band[2] ? ` (${band[2]})` : ""}: `;
   else if (err.field && err.field !== "link") where = `${err.field}: `;
-  return `${where}${err.message}`.replace(/\.$/, "").replace(/-(\d)/g, "−$1");
+  // A true minus sign for negative numbers (not for hyphens in names such as water-20c).
+  return `${where}${err.message}`.replace(/\.$/, "").replace(/(^|[\s(])-(\d)/g, "$1−$2");
 }
 
 /** The link fragment (no '#') of the last model that drew, or null. */
@@ -1824,6 +1833,11 @@ async function main() {
   if (demo.ok === false) throw new Error(`the built-in demo does not load: ${demo.error.message}`);
   const canvases = PLOT_KEYS.map((k) => $(`plot-${k}`));
   state.wb = new core.Workbench(...canvases);
+  // Read-only, for tests and scripts: the document (a copy) and the text each canvas shows.
+  window.chiroptic = Object.freeze({
+    document: () => JSON.parse(JSON.stringify(state.doc)),
+    drawnText: (key) => call(() => state.wb.drawn_text(key)) ?? [],
+  });
   bindTheme();
   const fragment = readFragment();
   if (fragment.options.show !== undefined) {

@@ -1,10 +1,13 @@
 // Screenshots of the page for a person to look at (run on demand):
 //   node tests/bench/screenshots.mjs [out-dir]
-// Writes wide (1280x800) and narrow (800x1000) views, light and dark, plus a
-// view with a bad entry, and prints any console error the page logged.
+// Writes wide (1280x800) and narrow (800x1000) views, light and dark, a view
+// with a bad entry, the export and share menus, a refused link, the wiki view
+// and the single offline file opened from disk, and prints any console error
+// the page logged.
 import { mkdirSync } from "node:fs";
 import { join } from "node:path";
-import { startBrowser, openPage } from "../lib/harness.mjs";
+import { pathToFileURL } from "node:url";
+import { startBrowser, openPage, DIST } from "../lib/harness.mjs";
 
 const out = process.argv[2] ?? "target/screenshots";
 mkdirSync(out, { recursive: true });
@@ -27,10 +30,38 @@ try {
       await page.mouse.move(0, 0);
       await page.screenshot({ path: join(out, "bad-entry.png") });
     }
+    if (name === "wide-light") {
+      await page.mouse.move(0, 0);
+      await page.fill("#band-1-width", "3200");
+      await page.click("#export-menu summary");
+      await page.screenshot({ path: join(out, "export-menu.png") });
+      await page.click("#share-menu summary");
+      await page.screenshot({ path: join(out, "share-menu.png") });
+      const link = await page.inputValue("#link-text");
+      await page.keyboard.press("Escape");
+      // The same model with a damaged link: the message, the model kept.
+      await page.evaluate(() => (location.hash = "c1.eNodjDELgzAQhf-KvDmE00y9sejg4lCKS"));
+      await page.waitForSelector("#notice:not([hidden])");
+      await page.screenshot({ path: join(out, "bad-link.png") });
+      // The wiki view of the CD plot, at a typical iframe size.
+      const wiki = await openPage(env, { width: 640, height: 400, path: `/${link.slice(link.indexOf("#"))}&show=cd` });
+      await wiki.page.screenshot({ path: join(out, "wiki-cd.png") });
+      await wiki.context.close();
+    }
     if (log.errors.length) console.log(`${name}: console errors:\n  ${log.errors.join("\n  ")}`);
     if (log.foreign.length) console.log(`${name}: foreign requests: ${log.foreign.join(", ")}`);
     await context.close();
   }
+  // The single offline file, opened from disk.
+  const context = await env.browser.newContext({ viewport: { width: 1280, height: 800 } });
+  const page = await context.newPage();
+  const requests = [];
+  page.on("request", (r) => requests.push(r.url().slice(0, 60)));
+  await page.goto(pathToFileURL(join(DIST, "chiroptic.html")).href);
+  await page.waitForSelector("html[data-ready=true]", { state: "attached", timeout: 20000 });
+  await page.screenshot({ path: join(out, "single-file.png") });
+  console.log(`single file: requests ${JSON.stringify(requests)}`);
+  await context.close();
   console.log(`screenshots in ${out}/`);
 } finally {
   await env.close();

@@ -47,22 +47,15 @@ export async function startBrowser() {
  * error, page error and request is recorded; requests that leave 127.0.0.1
  * are refused and listed in `foreign`.
  */
-export async function openPage(env, { width = 1280, height = 800, colorScheme = "light", path = "/" } = {}) {
-  const context = await env.browser.newContext({ viewport: { width, height }, colorScheme, acceptDownloads: true });
+export async function openPage(env, { width = 1280, height = 800, colorScheme = "light", path = "/", deviceScaleFactor = 1, context: given } = {}) {
+  const context = given ?? (await env.browser.newContext({ viewport: { width, height }, colorScheme, acceptDownloads: true, deviceScaleFactor }));
   const page = await context.newPage();
   const log = { errors: [], requests: [], foreign: [] };
   page.on("console", (m) => {
     if (m.type() === "error") log.errors.push(m.text());
   });
   page.on("pageerror", (e) => log.errors.push(`page error: ${e.message}`));
-  await context.route("**/*", (route) => {
-    const url = new URL(route.request().url());
-    log.requests.push(url.href);
-    const local = url.protocol === "blob:" || url.protocol === "data:" || url.hostname === "127.0.0.1";
-    if (local) return route.continue();
-    log.foreign.push(url.href);
-    return route.abort();
-  });
+  if (!given) await routeLocal(context, log);
   await page.goto(env.origin + path);
   try {
     await page.waitForSelector("html[data-ready=true]", { state: "attached", timeout: 20000 });
@@ -71,6 +64,18 @@ export async function openPage(env, { width = 1280, height = 800, colorScheme = 
     throw new Error(`the page did not start: ${fatal || "no message"}; console: ${log.errors.join(" | ")}`);
   }
   return { page, context, log };
+}
+
+/** Lets requests to 127.0.0.1 (and blob:/data:) through; records and refuses the rest. */
+async function routeLocal(context, log) {
+  await context.route("**/*", (route) => {
+    const url = new URL(route.request().url());
+    log.requests.push(url.href);
+    const local = url.protocol === "blob:" || url.protocol === "data:" || url.hostname === "127.0.0.1";
+    if (local) return route.continue();
+    log.foreign.push(url.href);
+    return route.abort();
+  });
 }
 
 /** A digest of a canvas's pixels, and how many differ from the background. */

@@ -38,6 +38,28 @@ export async function downloadText(page, selector) {
   return { name: download.suggestedFilename(), text: readFileSync(path, "utf8") };
 }
 
+/** Like downloadText, for binary files: the name and a Buffer. */
+export async function downloadBytes(page, selector) {
+  const [download] = await Promise.all([page.waitForEvent("download"), page.dispatchEvent(selector, "click")]);
+  return { name: download.suggestedFilename(), bytes: readFileSync(await download.path()) };
+}
+
+/** Width and height from a PNG's IHDR chunk (PNG specification, ISO/IEC 15948, 11.2.2). */
+export function pngSize(bytes) {
+  assert.equal(bytes.subarray(1, 4).toString("latin1"), "PNG", "PNG signature");
+  assert.equal(bytes.subarray(12, 16).toString("latin1"), "IHDR", "first chunk is IHDR");
+  return [bytes.readUInt32BE(16), bytes.readUInt32BE(20)];
+}
+
+/** The share link the page offers (its Share panel's text field). */
+export async function pageLink(page) {
+  if (!(await page.$eval("#share-menu", (d) => d.open))) await page.click("#share-menu summary");
+  await page.click("#copy-link");
+  const link = await page.inputValue("#link-text");
+  await page.keyboard.press("Escape");
+  return link;
+}
+
 /** The document as the page holds it, through its "Save model" control. */
 export async function savedModel(page) {
   const { text } = await downloadText(page, "#save-json");

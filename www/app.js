@@ -1795,13 +1795,18 @@ function startWiki(fragment) {
   const key = fragment.options.show;
   state.wiki = key;
   document.documentElement.classList.add("wiki");
-  if (!PLOT_KEYS.includes(key)) {
-    return showNotice(`This view cannot be shown: unknown plot “${key}” after “&show=” (use cd, ord, abs or index).`);
-  }
-  if (!fragment.link) return showNotice("This view cannot be shown: the address holds no share link before “&show=”.");
+  // A picture, not a workbench: the plots take no focus.
+  document.querySelectorAll(".canvas-box").forEach((box) => box.removeAttribute("tabindex"));
+  const fail = (text) => {
+    $("plots").hidden = true;
+    showNotice(text);
+  };
+  window.addEventListener("hashchange", () => location.reload());
+  if (!PLOT_KEYS.includes(key)) return fail(`This view cannot be shown: unknown plot “${key}” after “&show=” (use cd, ord, abs or index).`);
+  if (!fragment.link) return fail("This view cannot be shown: the address holds no share link before “&show=”.");
   const r = call(() => core.link_decode(fragment.link));
   if (!r) return;
-  if (!r.ok) return showNotice(`This plot cannot be shown: ${problemText(r.error)}.`);
+  if (!r.ok) return fail(`This plot cannot be shown: ${problemText(r.error)}.`);
   const doc = r.doc;
   doc.view = { ...(doc.view ?? {}), plots: [key] };
   if (doc.title) document.title = `${plotTitle(key)} · ${doc.title}`;
@@ -1811,7 +1816,6 @@ function startWiki(fragment) {
   sizeCanvases();
   refresh();
   new ResizeObserver(onResize).observe($("plot-grid"));
-  window.addEventListener("hashchange", () => location.reload());
 }
 
 // ------------------------------------------------------------------- start

@@ -1127,8 +1127,75 @@ const xAt = (f, px) => f.x_range[0] + ((px - f.left) / Math.max(1, f.right - f.l
 const pxOf = (f, x) => f.left + ((x - f.x_range[0]) / (f.x_range[1] - f.x_range[0])) * (f.right - f.left);
 const pyOf = (f, y, range = f.y_range) => f.bottom - ((y - range[0]) / (range[1] - range[0])) * (f.bottom - f.top);
 
+const yAt = (f, py) => f.y_range[0] + ((f.bottom - py) / Math.max(1, f.bottom - f.top)) * (f.y_range[1] - f.y_range[0]);
+
 let lastReadout = null;
 let drag = null; // { key, startPx, px }
+
+// ------------------------------------------------ dragging a band by its peak
+
+/** A band is caught within this many CSS pixels of its CD peak. */
+const GRAB_PX = 10;
+let peakCache = null; // the band peaks of the drawn model, in CSS pixels
+
+/** Each band's CD peak on screen: `[{ i, x, y, px, py }]` (inside the plot box). */
+function bandHandles() {
+  const f = frameOf("cd");
+  if (!f) return [];
+  if (peakCache?.drawn !== state.drawn) {
+    const peaks = call(() => state.wb.band_peaks()) ?? [];
+    peakCache = { drawn: state.drawn, peaks };
+  }
+  return peakCache.peaks
+    .map((p, i) => p && { i, x: p.x, y: p.y, px: pxOf(f, p.x), py: pyOf(f, p.y) })
+    .filter((h) => h && h.px >= f.left && h.px <= f.right && h.py >= f.top && h.py <= f.bottom);
+}
+
+function handleAt(px, py) {
+  let best = null;
+  for (const h of bandHandles()) {
+    const d = Math.hypot(h.px - px, h.py - py);
+    if (d <= GRAB_PX && (!best || d < best.d)) best = { ...h, d };
+  }
+  return best;
+}
+
+/**
+ * Dragging a peak moves the band: across, its centre follows the pointer;
+ * up and down, its rotatory strength scales so that the peak meets the
+ * pointer (a band's CD is proportional to its R). The y axis rescales as
+ * the band grows, so each step is taken twice, on the frame just drawn.
+ * One drag is one edit.
+ */
+let peakDrag = null; // { i, r0, y0, px, py, pending }
+function placePeak() {
+  const f = frameOf("cd");
+  const band = state.doc.bands[peakDrag.i];
+  if (!f || !band) return;
+  const x = xAt(f, Math.min(f.right, Math.max(f.left, peakDrag.px)));
+  const y = yAt(f, Math.min(f.bottom, Math.max(f.top, peakDrag.py)));
+  const nm = safe(() => core.convert_position(x, state.drawn.axis_unit, "nm"));
+  if (!Number.isFinite(nm)) return;
+  // A pixel is about a thousandth of the plot: these digits say all of it.
+  band.center_nm = Number(nm.toPrecision(5));
+  const r = band.rotatory_strength_1e40_cgs;
+  const peak = peakCache?.drawn === state.drawn ? peakCache.peaks[peakDrag.i] : call(() => state.wb.band_peaks())?.[peakDrag.i];
+  const next = peak && r ? (r * y) / peak.y : (peakDrag.r0 * y) / peakDrag.y0;
+  if (Number.isFinite(next)) band.rotatory_strength_1e40_cgs = Number(next.toPrecision(4));
+  refresh();
+}
+
+function movePeak(px, py) {
+  Object.assign(peakDrag, { px, py });
+  if (peakDrag.pending) return;
+  peakDrag.pending = true;
+  requestAnimationFrame(() => {
+    if (!peakDrag) return;
+    peakDrag.pending = false;
+    placePeak();
+    placePeak();
+  });
+}
 
 function drawCrosshair() {
   const r = state.cursorX === null || !state.drawn ? null : call(() => state.wb.readout(state.cursorX));
@@ -1185,7 +1252,7 @@ function quantity(label, v) {
 function renderReadout(r) {
   const out = $("readout");
   if (!r) {
-    out.textContent = "Point at a plot (or focus it and use ←/→) for values; drag to zoom.";
+    out.textContent = "Point at a plot (or focus it and use ←/→) for values; drag to zoom; drag a band’s CD peak to move it.";
     return;
   }
   // Each part carries its number in full (data-value) for copying and checks.
@@ -1209,9 +1276,12 @@ function bindPlots() {
     const key = fig.dataset.plot;
     const box = fig.querySelector(".canvas-box");
     const pxFromEvent = (e) => e.clientX - box.getBoundingClientRect().left;
+    const pyFromEvent = (e) => e.clientY - box.getBoundingClientRect().top;
     box.addEventListener("pointermove", (e) => {
       const f = frameOf(key);
       if (!f) return;
+      if (peakDrag) return movePeak(pxFromEvent(e), pyFromEvent(e));
+      if (key === "cd") box.classList.toggle("over-peak", Boolean(handleAt(pxFromEvent(e), pyFromEvent(e))));
       const px = Math.min(f.right, Math.max(f.left, pxFromEvent(e)));
       if (drag) drag.px = px;
       state.cursorX = xAt(f, px);
@@ -1227,10 +1297,34 @@ function bindPlots() {
       if (!f || e.button !== 0) return;
       const px = pxFromEvent(e);
       if (px < f.left || px > f.right) return;
+      const grab = key === "cd" ? handleAt(px, pyFromEvent(e)) : null;
+      if (grab) {
+        const r0 = state.doc.bands[grab.i]?.rotatory_strength_1e40_cgs;
+        if (!Number.isFinite(r0) || r0 === 0) return;
+        peakDrag = { i: grab.i, r0, y0: grab.y, px, py: pyFromEvent(e), pending: false };
+        box.classList.add("dragging-peak");
+        box.setPointerCapture(e.pointerId);
+        return;
+      }
       drag = { key, startPx: px, px };
       box.setPointerCapture(e.pointerId);
     });
-    box.addEventListener("pointerup", () => {
+    box.addEventListener("pointerup", (e) => {
+      if (peakDrag) {
+        const { i } = peakDrag;
+        // Settle on the release point.
+        Object.assign(peakDrag, { px: pxFromEvent(e), py: pyFromEvent(e) });
+        for (let k = 0; k < 3; k++) placePeak();
+        peakDrag = null;
+        edits.open = false; // the next edit is a new one
+        box.classList.remove("dragging-peak");
+        refresh();
+        const b = state.doc.bands[i];
+        if (b && !$("plot-grid").classList.contains("stale")) {
+          setStatus(`Band ${i + 1} (${b.name || `B${i + 1}`}): centre ${fmtText(b.center_nm, 5)} nm, R ${fmtText(b.rotatory_strength_1e40_cgs)}`);
+        }
+        return;
+      }
       const d = drag;
       drag = null;
       const f = frameOf(key);
@@ -1567,9 +1661,10 @@ function noteEdit() {
   const snap = JSON.stringify(state.doc);
   if (edits.at >= 0 && snap === edits.stack[edits.at]) return;
   const now = performance.now();
-  const target = document.activeElement;
-  const continuous = target?.tagName === "INPUT" && (isTextEntry(target) || target.type === "range");
-  if (edits.open && edits.at > 0 && continuous && target === edits.lastTarget && now - edits.lastTime < BURST_MS) {
+  const target = peakDrag ?? document.activeElement;
+  const continuous = peakDrag !== null || (target?.tagName === "INPUT" && (isTextEntry(target) || target.type === "range"));
+  const recent = now - edits.lastTime < BURST_MS || peakDrag !== null;
+  if (edits.open && edits.at > 0 && continuous && target === edits.lastTarget && recent) {
     edits.stack[edits.at] = snap;
   } else {
     edits.stack.splice(edits.at + 1);
@@ -1841,6 +1936,7 @@ async function main() {
   window.chiroptic = Object.freeze({
     document: () => JSON.parse(JSON.stringify(state.doc)),
     drawnText: (key) => call(() => state.wb.drawn_text(key)) ?? [],
+    bandHandles: () => bandHandles().map(({ i, px, py }) => ({ i, px, py })),
   });
   bindTheme();
   const fragment = readFragment();

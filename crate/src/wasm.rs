@@ -621,6 +621,32 @@ impl Workbench {
         Ok(to_js(&frame_out(kind, &frame)))
     }
 
+    /// Where each band's contribution to the CD plot is largest in magnitude
+    /// on the grid: `[{ x, y } | null]` in axis and plotted units (null for a
+    /// band with no contribution), for dragging a band by its peak.
+    pub fn band_peaks(&self) -> JsValue {
+        #[derive(Serialize)]
+        struct Peak {
+            x: f64,
+            y: f64,
+        }
+        let Some(cur) = &self.current else { return JsValue::NULL };
+        let spectra = &cur.spectra;
+        let peaks: Vec<Option<Peak>> = (0..spectra.bands.len())
+            .map(|i| {
+                let values = spectra.band_cd_in(i, cur.view.cd_unit).ok()?;
+                let (k, y) = values
+                    .iter()
+                    .enumerate()
+                    .filter(|(_, v)| v.is_finite() && **v != 0.0)
+                    .max_by(|a, b| a.1.abs().total_cmp(&b.1.abs()))?;
+                let nu = spectra.wavenumber_cm1.get(k)?;
+                Some(Peak { x: cur.view.axis.from_wavenumber(*nu), y: *y })
+            })
+            .collect();
+        to_js(&peaks)
+    }
+
     /// Every text the last redraw put on a plot's canvas, in drawing order.
     pub fn drawn_text(&self, plot: &str) -> Result<Vec<String>, JsError> {
         let kind = plot_kind(plot)?;

@@ -43,7 +43,7 @@ test("SVG export parses and its labels are the canvas plot's", async () => {
   try {
     const bandNames = JSON.parse(readFileSync(DEMO, "utf8")).bands.map((b) => b.name);
     await page.click("#export-menu summary");
-    assert.match(await page.textContent("#export-size"), /\d+ × \d+ px/);
+    await page.waitForFunction(() => /\d+ × \d+ px/.test(document.getElementById("export-size").textContent));
     for (const key of PLOTS) {
       const canvas = await page.evaluate((k) => window.chiroptic.drawnText(k), key);
       assert.ok(canvas.length >= 8, `${key}: ${canvas.length} labels on the canvas`);

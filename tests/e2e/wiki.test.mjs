@@ -88,8 +88,8 @@ test("the embed control copies an iframe snippet that opens the wiki view", asyn
   try {
     await page.uncheck("#show-cd");
     await page.click("#share-menu summary");
-    // The menu offers the plots that are shown first.
-    assert.equal(await page.inputValue("#embed-plot"), "ord");
+    // The menu offers a shown plot first (set as the panel opens: its toggle event).
+    await page.waitForFunction(() => document.getElementById("embed-plot").value === "ord");
     await page.selectOption("#embed-plot", "abs");
     await page.fill("#embed-width", "500");
     await page.fill("#embed-height", "320");

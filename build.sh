@@ -67,22 +67,42 @@ ensure_wasm_bindgen() {
     fi
 }
 
-# wasm-opt (Debian's binaryen) shrinks the module when a usable one is on the
-# machine. Binaryen before version 116 reads the externref table that
-# wasm-bindgen emits as anyref and writes a module browsers refuse (seen with
-# Debian 12's version 108), so older versions are skipped, and the build does
-# not install binaryen just to skip it: the module is under budget without it.
+# wasm-opt (binaryen) shrinks the module below its 600 kB budget. Binaryen
+# before version 116 reads the externref table that wasm-bindgen emits as
+# anyref and writes a module browsers refuse (seen with Debian 12's version
+# 108), so an older system wasm-opt is passed over for binaryen from the npm
+# registry, pinned and installed once under the build directory.
 WASM_OPT_MIN_VERSION=116
+BINARYEN_NPM_VERSION=132.0.0
+wasm_opt_version() { "$1" --version 2>/dev/null | grep -oE '[0-9]+' | head -1; }
+find_wasm_opt() {
+    local system version local_opt="$TARGET_DIR/tools/node_modules/.bin/wasm-opt"
+    system="$(command -v wasm-opt || true)"
+    if [ -n "$system" ]; then
+        version="$(wasm_opt_version "$system")"
+        if [ -n "$version" ] && [ "$version" -ge "$WASM_OPT_MIN_VERSION" ]; then
+            echo "$system"
+            return 0
+        fi
+    fi
+    if [ "$(wasm_opt_version "$local_opt")" != "${BINARYEN_NPM_VERSION%%.*}" ]; then
+        command -v npm >/dev/null || return 1
+        say "installing binaryen $BINARYEN_NPM_VERSION (wasm-opt) from npm, once"
+        mkdir -p "$TARGET_DIR/tools"
+        npm install --prefix "$TARGET_DIR/tools" --no-audit --no-fund --loglevel=error \
+            "binaryen@$BINARYEN_NPM_VERSION" >&2 || return 1
+    fi
+    echo "$local_opt"
+}
+
 optimise_wasm() {
-    local file="$1" version
-    command -v wasm-opt >/dev/null || return 0
-    version="$(wasm-opt --version 2>/dev/null | grep -oE '[0-9]+' | head -1)"
-    if [ -z "$version" ] || [ "$version" -lt "$WASM_OPT_MIN_VERSION" ]; then
-        say "wasm-opt ${version:-?} is older than $WASM_OPT_MIN_VERSION and breaks reference types: not used"
+    local file="$1" wasm_opt
+    if ! wasm_opt="$(find_wasm_opt)"; then
+        say "no usable wasm-opt (needs npm or binaryen >= $WASM_OPT_MIN_VERSION): module left unoptimised"
         return 0
     fi
     # The features are those rustc enables by default for wasm32.
-    if wasm-opt -O3 --enable-bulk-memory --enable-nontrapping-float-to-int --enable-sign-ext \
+    if "$wasm_opt" -O3 --enable-bulk-memory --enable-nontrapping-float-to-int --enable-sign-ext \
             --enable-mutable-globals --enable-reference-types --enable-multivalue \
             "$file" -o "$file.opt"; then
         mv "$file.opt" "$file"

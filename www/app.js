@@ -517,6 +517,24 @@ function numberCell(id, label, errorId) {
   return { input, slider, cell: el("div", { className: "num-cell" }, input, slider) };
 }
 
+/** Binds a width field (stored in cm⁻¹, shown in the chosen width unit). */
+function bindWidth(cell, band, key, label) {
+  bindNumber({
+    ...cell,
+    label,
+    canonical: false,
+    unit: () => unitLabel(state.ui.widthUnit),
+    get: () => convert(() => core.convert_width(band[key], "cm-1", state.ui.widthUnit, band.center_nm)),
+    set: (v) => {
+      const u = state.ui.widthUnit;
+      const cm1 = convert(() => core.convert_width(v, u, "cm-1", band.center_nm));
+      band[key] = shortest(cm1, v, (c) => core.convert_width(c, "cm-1", u, band.center_nm));
+    },
+    step: () => WIDTH_STEP[state.ui.widthUnit],
+    range: () => widthRange(band),
+  });
+}
+
 function renderBands() {
   const rows = [];
   state.doc.bands.forEach((band, i) => rows.push(...bandRows(band, i)));
@@ -590,39 +608,13 @@ function bandRows(band, i) {
   // Width, and the Lorentzian part of a Voigt band.
   const w = numberCell(`band-${i}-width`, `Width of band ${n}`, errorId);
   w.input.dataset.field = `bands[${i}].fwhm_cm1`;
-  bindNumber({
-    ...w,
-    label: "",
-    canonical: false,
-    unit: () => unitLabel(state.ui.widthUnit),
-    get: () => convert(() => core.convert_width(band.fwhm_cm1, "cm-1", state.ui.widthUnit, band.center_nm)),
-    set: (v) => {
-      const u = state.ui.widthUnit;
-      const cm1 = convert(() => core.convert_width(v, u, "cm-1", band.center_nm));
-      band.fwhm_cm1 = shortest(cm1, v, (c) => core.convert_width(c, "cm-1", u, band.center_nm));
-    },
-    step: () => WIDTH_STEP[state.ui.widthUnit],
-    range: () => widthRange(band),
-  });
+  bindWidth(w, band, "fwhm_cm1", "");
   const widthTd = el("td", { className: "col-num" }, w.cell);
   if (band.shape === "voigt") {
     const l = numberCell(`band-${i}-lorentz`, `Lorentzian width of band ${n}`, errorId);
     l.input.dataset.field = `bands[${i}].lorentz_fwhm_cm1`;
     l.input.placeholder = "Lorentz part";
-    bindNumber({
-      ...l,
-      label: "Lorentzian part",
-      canonical: false,
-      unit: () => unitLabel(state.ui.widthUnit),
-      get: () => convert(() => core.convert_width(band.lorentz_fwhm_cm1, "cm-1", state.ui.widthUnit, band.center_nm)),
-      set: (v) => {
-        const u = state.ui.widthUnit;
-        const cm1 = convert(() => core.convert_width(v, u, "cm-1", band.center_nm));
-        band.lorentz_fwhm_cm1 = shortest(cm1, v, (c) => core.convert_width(c, "cm-1", u, band.center_nm));
-      },
-      step: () => WIDTH_STEP[state.ui.widthUnit],
-      range: () => widthRange(band),
-    });
+    bindWidth(l, band, "lorentz_fwhm_cm1", "Lorentzian part");
     widthTd.append(el("div", { className: "sub-label", textContent: "Lorentzian part" }), l.cell);
   }
   tr.append(widthTd);

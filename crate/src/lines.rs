@@ -3,9 +3,9 @@
 
 use crate::error::Result;
 use crate::model::Model;
-use crate::spectra::{evaluate, Spectra};
-use crate::units::{AxisUnit, OrdUnit, SampleContext, DEG_PER_RAD, ESU2_CM2_PER_ROTATORY_UNIT, ROTATORY_CONSTANT};
-use std::f64::consts::{LN_10, PI};
+use crate::spectra::{chiral_scale, evaluate, Spectra};
+use crate::units::{degrees_from_delta_n, AxisUnit, OrdUnit, SampleContext, ESU2_CM2_PER_ROTATORY_UNIT};
+use std::f64::consts::PI;
 
 /// A lamp line: name and wavelength in nm as polarimeters quote it (air
 /// wavelengths, used as given: no air-to-vacuum correction is applied).
@@ -82,11 +82,11 @@ impl DrudeTerm {
 
     /// The rotatory strength (1e-40 cgs) of a band at `lambda0_nm` whose
     /// far-from-band rotation, in degrees for this sample, is this term.
-    /// From the model's Dn = ln10 c R/(4 pi C_R) (2/pi) nu/(nu_j^2 - nu^2) and
-    /// phi = 180 l nu Dn:  phi = [180 l ln10 c R / (2 pi^2 C_R)] lambda_j^2 / (lambda^2 - lambda_j^2).
+    /// Far from the band the model's Dn is chiral_scale(c) R drude(nu_j, nu)
+    /// and phi = degrees_from_delta_n(Dn, nu, l); with nu = 1e7/lambda,
+    /// nu drude(nu_j, nu) = (2/pi) lambda_j^2 / (lambda^2 - lambda_j^2).
     pub fn rotatory_strength_1e40(&self, sample: &SampleContext) -> f64 {
-        let per_r = DEG_PER_RAD * PI * sample.path_length_cm * LN_10 * sample.concentration_mol_per_l
-            / (4.0 * PI * ROTATORY_CONSTANT)
+        let per_r = degrees_from_delta_n(chiral_scale(sample.concentration_mol_per_l), 1.0, sample.path_length_cm)
             * (2.0 / PI)
             * self.lambda0_nm
             * self.lambda0_nm;

@@ -120,9 +120,8 @@ pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
     let n = wavenumber_cm1.len();
     let ctx = model.sample.context;
     let c = ctx.concentration_mol_per_l;
-    // Dn + i Dk = ln10 c / (4 pi C_R) sum R s;  dn + i k = ln10 c / (4 pi C_D) sum D s.
-    let chiral_scale = LN_10 * c / (4.0 * PI * ROTATORY_CONSTANT);
-    let mean_scale = LN_10 * c / (4.0 * PI * DIPOLE_CONSTANT);
+    let chiral_scale = chiral_scale(c);
+    let mean_scale = mean_scale(c);
 
     let n_solvent = solvent_index(model, wavenumber_cm1)?;
     // Per-point factors, computed once: e = eps_per_k * k, phi = deg_per_dn * Dn.
@@ -197,6 +196,16 @@ fn solvent_index(model: &Model, wavenumber_cm1: &[f64]) -> Result<Vec<f64>> {
             }
         })
         .collect()
+}
+
+/// Dn + i Dk = chiral_scale(c) sum_j R_j s_j (R in esu^2 cm^2): ln10 c / (4 pi C_R).
+pub fn chiral_scale(concentration_mol_per_l: f64) -> f64 {
+    LN_10 * concentration_mol_per_l / (4.0 * PI * ROTATORY_CONSTANT)
+}
+
+/// dn + i k = mean_scale(c) sum_j D_j s_j (D in esu^2 cm^2): ln10 c / (4 pi C_D).
+pub fn mean_scale(concentration_mol_per_l: f64) -> f64 {
+    LN_10 * concentration_mol_per_l / (4.0 * PI * DIPOLE_CONSTANT)
 }
 
 /// e = 4 pi nu k / (ln10 c), M^-1 cm^-1 (likewise De from Dk).

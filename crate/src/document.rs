@@ -88,6 +88,10 @@ pub struct BandDoc {
     pub dipole_strength_debye2: f64,
 }
 
+/// Grid points across the shown range when a view names none (the page and
+/// `chiroptic render` alike, so that both draw the same picture).
+pub const DEFAULT_VIEW_POINTS: u32 = 2000;
+
 /// How the model is shown: carried by files and links so that a shared model
 /// opens as its author saw it. Every field is optional.
 #[derive(Debug, Clone, PartialEq, Default, Serialize, Deserialize)]

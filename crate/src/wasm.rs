@@ -8,7 +8,7 @@
 //! fault, and the plots of the last good model stay on the canvases. Should a
 //! bug panic all the same, the hook shows a message in the page.
 
-use crate::document::{Document, ViewDoc};
+use crate::document::{Document, ViewDoc, DEFAULT_VIEW_POINTS};
 use crate::error::{Error, ErrorKind};
 use crate::figures::{self, PlotFrame, PlotKind, PlotRequest};
 use crate::lines::{rotation_at_lines, STANDARD_LINES};
@@ -29,8 +29,6 @@ use web_sys::HtmlCanvasElement;
 /// offline file) open on it without fetching anything.
 const DEMO_JSON: &str = include_str!("../../fixtures/demo/demo.json");
 
-/// Grid points across the shown range when the view names none.
-pub const DEFAULT_POINTS: u32 = 2000;
 
 /// The ORD units offered on the ORD plot (Δn has its own plot).
 const ORD_MENU: [OrdUnit; 3] = [OrdUnit::Degrees, OrdUnit::SpecificRotation, OrdUnit::MolarRotation];
@@ -125,11 +123,16 @@ pub fn document_json(doc: JsValue) -> Result<String, JsError> {
     Ok(doc.to_json_pretty())
 }
 
-fn ok_doc(doc: &Document) -> JsValue {
+/// `{ ok: true, <key>: value }`, the success half of the page's replies.
+fn ok_with(key: &str, value: &JsValue) -> JsValue {
     let out = js_sys::Object::new();
     let _ = js_sys::Reflect::set(&out, &"ok".into(), &JsValue::TRUE);
-    let _ = js_sys::Reflect::set(&out, &"doc".into(), &document_to_js(doc));
+    let _ = js_sys::Reflect::set(&out, &key.into(), value);
     out.into()
+}
+
+fn ok_doc(doc: &Document) -> JsValue {
+    ok_with("doc", &document_to_js(doc))
 }
 
 /// Reads a document the page saved itself (autosave): it must parse and
@@ -151,12 +154,7 @@ pub fn link_encode(doc: JsValue) -> JsValue {
         link::encode(&doc)
     });
     match made {
-        Ok(text) => {
-            let out = js_sys::Object::new();
-            let _ = js_sys::Reflect::set(&out, &"ok".into(), &JsValue::TRUE);
-            let _ = js_sys::Reflect::set(&out, &"link".into(), &JsValue::from_str(&text));
-            out.into()
-        }
+        Ok(text) => ok_with("link", &JsValue::from_str(&text)),
         Err(e) => error_js(e),
     }
 }
@@ -231,7 +229,7 @@ pub fn catalog() -> JsValue {
         plots: PlotKind::ALL.into_iter().map(|k| Plot { key: k.key(), title: k.title() }).collect(),
         lines: STANDARD_LINES.iter().map(|l| Line { name: l.name, wavelength_nm: l.wavelength_nm }).collect(),
         palette: (0..figures::BAND_PALETTE.len()).map(figures::band_colour_hex).collect(),
-        default_points: DEFAULT_POINTS,
+        default_points: DEFAULT_VIEW_POINTS,
         max_points: crate::spectra::MAX_GRID_POINTS,
         min_center_nm: crate::model::MIN_CENTER_NM,
         max_center_nm: crate::model::MAX_CENTER_NM,
@@ -351,56 +349,28 @@ struct View {
 fn resolve_view(view: Option<&ViewDoc>, model: &Model) -> Result<View, Error> {
     let empty = ViewDoc::default();
     let v = view.unwrap_or(&empty);
-    let axis = match &v.axis_unit {
-        None => AxisUnit::Nanometre,
-        Some(k) => AxisUnit::parse(k).ok_or_else(|| {
-            Error::new(ErrorKind::UnknownName, "view.axis_unit", format!("unknown spectral unit \"{k}\" (use nm, cm-1 or ev)"))
-        })?,
-    };
+    // One validator of a view, shared with share links: every name and
+    // number below is known to be good after it.
+    link::check_view(v)?;
+    let axis = v.axis_unit.as_deref().and_then(AxisUnit::parse).unwrap_or(AxisUnit::Nanometre);
     let (a, b) = match v.range_nm {
         Some([a, b]) => (a, b),
         None => Grid::default_range_nm(model),
     };
-    for end in [a, b] {
-        if !end.is_finite() || end <= 0.0 {
-            return Err(Error::new(ErrorKind::NotPositive, "view.range_nm", format!("range ends must be positive wavelengths (got {end})")));
-        }
-    }
     let (lo_nm, hi_nm) = (a.min(b), a.max(b));
+    // Stricter than "two different ends": a window too narrow to draw.
     if hi_nm - lo_nm < hi_nm * 1e-6 {
         return Err(Error::new(ErrorKind::OutOfRange, "view.range_nm", format!("the range is empty ({a} to {b} nm)")));
     }
     // Left to right in increasing axis value.
     let ends = (axis.from_wavenumber(AxisUnit::Nanometre.to_wavenumber(lo_nm)), axis.from_wavenumber(AxisUnit::Nanometre.to_wavenumber(hi_nm)));
     let x_range = (ends.0.min(ends.1), ends.0.max(ends.1));
-    let points = v.points.unwrap_or(DEFAULT_POINTS) as usize;
-    if !(2..=crate::spectra::MAX_GRID_POINTS).contains(&points) {
-        return Err(Error::new(
-            ErrorKind::OutOfRange,
-            "view.points",
-            format!("number of points must lie in 2..{} (got {points})", crate::spectra::MAX_GRID_POINTS),
-        ));
-    }
-    let cd_unit = match &v.cd_unit {
-        None => CdUnit::Millidegrees,
-        Some(k) => CdUnit::parse(k)
-            .ok_or_else(|| Error::new(ErrorKind::UnknownName, "view.cd_unit", format!("unknown CD unit \"{k}\"")))?,
-    };
-    let ord_unit = match &v.ord_unit {
-        None => OrdUnit::Degrees,
-        Some(k) => OrdUnit::parse(k)
-            .ok_or_else(|| Error::new(ErrorKind::UnknownName, "view.ord_unit", format!("unknown ORD unit \"{k}\"")))?,
-    };
+    let points = v.points.unwrap_or(DEFAULT_VIEW_POINTS) as usize;
+    let cd_unit = v.cd_unit.as_deref().and_then(CdUnit::parse).unwrap_or(CdUnit::Millidegrees);
+    let ord_unit = v.ord_unit.as_deref().and_then(OrdUnit::parse).unwrap_or(OrdUnit::Degrees);
     let plots = match &v.plots {
         None => PlotKind::ALL.to_vec(),
-        Some(keys) => keys
-            .iter()
-            .map(|k| {
-                PlotKind::parse(k).ok_or_else(|| {
-                    Error::new(ErrorKind::UnknownName, "view.plots", format!("unknown plot \"{k}\" (use cd, ord, abs, index)"))
-                })
-            })
-            .collect::<Result<Vec<_>, _>>()?,
+        Some(keys) => keys.iter().filter_map(|k| PlotKind::parse(k)).collect(),
     };
     // The unit conversions that need sample data fail here, before any
     // canvas is touched, so a bad choice leaves every plot as it was.

@@ -3,7 +3,7 @@
 //! `link` / `open`: share links made and read by the codec the page uses.
 
 use super::{load, Failure};
-use crate::document::ViewDoc;
+use crate::document::{ViewDoc, DEFAULT_VIEW_POINTS};
 use crate::error::{Error, ErrorKind};
 use crate::figures::{self, PlotKind, PlotRequest};
 use crate::link;
@@ -11,8 +11,6 @@ use crate::spectra::{evaluate, Grid};
 use crate::units::{AxisUnit, CdUnit, OrdUnit};
 use std::path::Path;
 
-/// Grid points across the plot when the document's view names none.
-pub const DEFAULT_POINTS: usize = 1200;
 
 pub struct RenderOptions {
     pub plot: String,
@@ -84,7 +82,7 @@ pub fn render(path: &Path, o: &RenderOptions, output: &Path, out: &mut Vec<u8>) 
         (None, None) => default_range(&view, &model, axis),
         _ => return Err(bad("--from", ErrorKind::MissingField, "give both --from and --to, or neither".into())),
     };
-    let points = view.points.map(|p| p as usize).unwrap_or(DEFAULT_POINTS);
+    let points = view.points.unwrap_or(DEFAULT_VIEW_POINTS) as usize;
     let grid = Grid::linspace(x_range.0, x_range.1, points, axis).map_err(|e| Failure::input("--from/--to", e))?;
     let spectra = evaluate(&model, &grid.wavenumber_cm1).map_err(|e| Failure::input(&origin, e))?;
 

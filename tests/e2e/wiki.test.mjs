@@ -95,6 +95,8 @@ test("the embed control copies an iframe snippet that opens the wiki view", asyn
     await page.fill("#embed-height", "320");
     await page.click("#copy-embed");
     snippet = await page.inputValue("#embed-text");
+    // The copy answers asynchronously (the clipboard, or its 1.5 s time-out).
+    await page.waitForFunction(() => document.getElementById("embed-status").textContent !== "", null, { timeout: 5000 });
     assert.match(await page.textContent("#embed-status"), /Copied|press Ctrl\+C/);
   } finally {
     await context.close();

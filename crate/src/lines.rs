@@ -76,6 +76,40 @@ impl DrudeTerm {
         Some(DrudeTerm { amplitude_nm2: amplitude, lambda0_nm: l0_sq.sqrt() })
     }
 
+    /// The least-squares term through any number of readings (lambda nm,
+    /// rotation), minimising the relative residuals: for a given lambda0 the
+    /// best amplitude is linear, so only lambda0 is searched (golden section
+    /// between zero and just below the shortest reading's wavelength).
+    /// `None` with fewer than two readings or when the rotations change sign.
+    pub fn fit(readings: &[(f64, f64)]) -> Option<DrudeTerm> {
+        let positive = readings.iter().all(|r| r.1 > 0.0);
+        let negative = readings.iter().all(|r| r.1 < 0.0);
+        if readings.len() < 2 || !(positive || negative) || readings.iter().any(|r| !(r.0 > 0.0 && r.0.is_finite())) {
+            return None;
+        }
+        // x_i = 1/((l_i^2 - L0^2) rot_i); residual_i = a x_i - 1; best a = sum x / sum x^2.
+        let best = |l0: f64| {
+            let x: Vec<f64> = readings.iter().map(|(l, r)| 1.0 / ((l * l - l0 * l0) * r)).collect();
+            let amplitude = x.iter().sum::<f64>() / x.iter().map(|v| v * v).sum::<f64>();
+            let cost = x.iter().map(|v| (amplitude * v - 1.0).powi(2)).sum::<f64>();
+            (cost, amplitude)
+        };
+        let shortest = readings.iter().map(|r| r.0).fold(f64::INFINITY, f64::min);
+        let (mut lo, mut hi) = (0.0, shortest * (1.0 - 1e-6));
+        let ratio = (5.0_f64.sqrt() - 1.0) / 2.0;
+        for _ in 0..200 {
+            let (m1, m2) = (hi - ratio * (hi - lo), lo + ratio * (hi - lo));
+            if best(m1).0 < best(m2).0 {
+                hi = m2;
+            } else {
+                lo = m1;
+            }
+        }
+        let lambda0_nm = (lo + hi) / 2.0;
+        let (_, amplitude_nm2) = best(lambda0_nm);
+        amplitude_nm2.is_finite().then_some(DrudeTerm { amplitude_nm2, lambda0_nm })
+    }
+
     pub fn rotation(&self, lambda_nm: f64) -> f64 {
         self.amplitude_nm2 / (lambda_nm * lambda_nm - self.lambda0_nm * self.lambda0_nm)
     }

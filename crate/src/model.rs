@@ -113,7 +113,7 @@ fn solvent_from_doc(s: &SolventDoc) -> Result<Solvent> {
                 finite(&format!("sample.solvent.sellmeier.b[{i}]"), *bi)?;
                 finite(&format!("sample.solvent.sellmeier.c_um2[{i}]"), *ci)?;
             }
-            Ok(Solvent::Sellmeier { b: b.clone(), c_um2: c_um2.clone() })
+            Ok(Solvent::Sellmeier { b: b.clone(), c_um2: c_um2.clone(), range: None })
         }
         _ => Err(Error::new(
             ErrorKind::MissingField,
@@ -122,6 +122,15 @@ fn solvent_from_doc(s: &SolventDoc) -> Result<Solvent> {
         )),
     }
 }
+
+/// The smallest dipole strength (debye^2) a band of rotatory strength
+/// `r_1e40` may have: |g| = 4|R|/D <= 2 gives D >= 2|R|.
+pub fn dissymmetry_limited_dipole_strength(r_1e40: f64) -> f64 {
+    MAX_DISSYMMETRY.recip() * 4.0 * units::rotatory_strength_esu2_cm2(r_1e40.abs()) / units::dipole_strength_esu2_cm2(1.0)
+}
+
+/// |g| = |De / e| cannot exceed 2 (e_L and e_R are both non-negative).
+pub const MAX_DISSYMMETRY: f64 = 2.0;
 
 fn band_from_doc(i: usize, b: &BandDoc) -> Result<Band> {
     let field = |name: &str| format!("bands[{i}].{name}");
@@ -174,6 +183,20 @@ fn band_from_doc(i: usize, b: &BandDoc) -> Result<Band> {
             ErrorKind::NotPositive,
             field("dipole_strength_debye2"),
             format!("dipole strength cannot be negative (got {d})"),
+        ));
+    }
+    // |g| = |De/e| <= 2 because e_L, e_R >= 0: at the centre of a band g = 4R/D.
+    let smallest_d = dissymmetry_limited_dipole_strength(r);
+    if d < smallest_d {
+        return Err(Error::new(
+            ErrorKind::OutOfRange,
+            field("dipole_strength_debye2"),
+            format!(
+                "dipole strength {} D² is too small for R = {}: 4|R|/D would exceed 2 (one circular polarisation absorbing negatively); the smallest D this R allows is {} D²",
+                crate::table::number(d),
+                crate::table::number(r),
+                crate::table::number(smallest_d)
+            ),
         ));
     }
     let name = if b.name.trim().is_empty() { format!("B{}", i + 1) } else { b.name.clone() };

@@ -60,7 +60,8 @@ impl Grid {
     }
 
     /// A wavelength range that shows every band of the model with room on
-    /// either side (at least 180-650 nm, the usual CD and polarimetry span).
+    /// either side (at least 180-650 nm, the usual CD and polarimetry span),
+    /// kept inside the solvent series' valid range when it has one.
     pub fn default_range_nm(model: &Model) -> (f64, f64) {
         let mut lo = 180.0_f64;
         let mut hi = 650.0_f64;
@@ -69,7 +70,11 @@ impl Grid {
             lo = lo.min(0.9 * nm);
             hi = hi.max(1.25 * nm);
         }
-        ((lo / 10.0).floor() * 10.0, (hi / 10.0).ceil() * 10.0)
+        let (lo, hi) = ((lo / 10.0).floor() * 10.0, (hi / 10.0).ceil() * 10.0);
+        match model.sample.solvent.valid_range() {
+            Some(r) => (lo.max(r.from_nm), hi.min(r.to_nm)),
+            None => (lo, hi),
+        }
     }
 }
 
@@ -137,11 +142,13 @@ pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
     for band in &model.bands {
         let r = chiral_scale * band.rotatory_strength_esu2_cm2;
         let d = mean_scale * band.dipole_strength_esu2_cm2;
-        let shape = band.lineshape.values(wavenumber_cm1);
+        // The chiral pair takes the odd-type shape s, the mean index the
+        // even-type s~ (same Im on nu > 0; see lineshape).
+        let (shape, mean_re) = band.lineshape.values_with_mean(wavenumber_cm1);
         for (i, s) in shape.iter().enumerate() {
             delta_n[i] += r * s.re;
             delta_k[i] += r * s.im;
-            dn_mean[i] += d * s.re;
+            dn_mean[i] += d * mean_re[i];
             k_mean[i] += d * s.im;
         }
         contributions.push(BandContribution {
@@ -167,7 +174,7 @@ pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
         k_right: k_mean.iter().zip(&delta_k).map(|(m, d)| m - d / 2.0).collect(),
         rotation_deg: delta_n.iter().zip(&deg_per_dn).map(|(d, f)| f * d).collect(),
         ellipticity_mdeg: delta_epsilon.iter().map(|de| mdeg_per_de * de).collect(),
-        g_factor: delta_epsilon.iter().zip(&epsilon).map(|(de, e)| de / e).collect(),
+        g_factor: dissymmetry(&delta_epsilon, &epsilon),
         delta_epsilon,
         epsilon,
         n_solvent,
@@ -178,6 +185,22 @@ pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
 }
 
 fn solvent_index(model: &Model, wavenumber_cm1: &[f64]) -> Result<Vec<f64>> {
+    if let Some(range) = model.sample.solvent.valid_range() {
+        let outside = wavenumber_cm1
+            .iter()
+            .map(|nu| AxisUnit::Nanometre.from_wavenumber(*nu))
+            .find(|nm| !range.contains_nm(*nm));
+        if let Some(nm) = outside {
+            return Err(Error::new(
+                ErrorKind::OutOfRange,
+                "sample.solvent",
+                format!(
+                    "the {} series is valid from {} to {} nm only; the range reaches {nm:.1} nm",
+                    range.solvent, range.from_nm, range.to_nm
+                ),
+            ));
+        }
+    }
     wavenumber_cm1
         .iter()
         .map(|&nu| {
@@ -203,7 +226,7 @@ pub fn chiral_scale(concentration_mol_per_l: f64) -> f64 {
     LN_10 * concentration_mol_per_l / (4.0 * PI * ROTATORY_CONSTANT)
 }
 
-/// dn + i k = mean_scale(c) sum_j D_j s_j (D in esu^2 cm^2): ln10 c / (4 pi C_D).
+/// dn + i k = mean_scale(c) sum_j D_j s~_j (D in esu^2 cm^2): ln10 c / (4 pi C_D).
 pub fn mean_scale(concentration_mol_per_l: f64) -> f64 {
     LN_10 * concentration_mol_per_l / (4.0 * PI * DIPOLE_CONSTANT)
 }
@@ -258,7 +281,21 @@ impl Spectra {
     }
 }
 
+/// Below this fraction of its largest absorption the ratio De/e means
+/// nothing (both are tails), so g is reported as missing (NaN).
+pub const DISSYMMETRY_MIN_EPSILON_FRACTION: f64 = 1e-3;
+
+/// g = De/e at each point, NaN where e is below
+/// [`DISSYMMETRY_MIN_EPSILON_FRACTION`] of its largest value on the grid.
+pub fn dissymmetry(de: &[f64], e: &[f64]) -> Vec<f64> {
+    let floor = DISSYMMETRY_MIN_EPSILON_FRACTION * e.iter().fold(0.0_f64, |m, v| m.max(v.abs()));
+    de.iter().zip(e).map(|(de, e)| if e.abs() > floor { de / e } else { f64::NAN }).collect()
+}
+
 fn cd_values(de: &[f64], e: &[f64], unit: CdUnit, ctx: &SampleContext) -> std::result::Result<Vec<f64>, UnitError> {
+    if unit == CdUnit::Dissymmetry {
+        return Ok(dissymmetry(de, e));
+    }
     de.iter().zip(e).map(|(de, e)| unit.from_delta_epsilon(*de, *e, ctx)).collect()
 }
 

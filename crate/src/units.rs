@@ -32,6 +32,10 @@ pub const MDEG_PER_DEG: f64 = 1000.0;
 pub const CM_PER_DM: f64 = 10.0;
 /// Millimetres per centimetre.
 pub const MM_PER_CM: f64 = 10.0;
+/// Molar quantities of the trade ([theta], [Phi], [theta]_MRW, in
+/// deg cm^2 dmol^-1) are 100 X / (l_cm c_mol_per_l) for an observed angle X
+/// in degrees: the 100 turns mol/L * cm into dmol/cm^2.
+pub const MOLAR_PER_OBSERVED: f64 = 100.0;
 
 /// Degrees per radian.
 pub const DEG_PER_RAD: f64 = 180.0 / PI;
@@ -49,7 +53,7 @@ pub const ELLIPTICITY_DEG_PER_DELTA_A: f64 = LN_10 / 4.0 * DEG_PER_RAD;
 
 /// Molar ellipticity [theta] (deg cm^2 dmol^-1) per De (M^-1 cm^-1): the
 /// factor 100 turns mol/L * cm into dmol/cm^2; about 3298.2.
-pub const MOLAR_ELLIPTICITY_PER_DELTA_EPSILON: f64 = 100.0 * ELLIPTICITY_DEG_PER_DELTA_A;
+pub const MOLAR_ELLIPTICITY_PER_DELTA_EPSILON: f64 = MOLAR_PER_OBSERVED * ELLIPTICITY_DEG_PER_DELTA_A;
 
 /// Oscillator strength per integrated absorption: f = F * int e dnu with
 /// F = 1000 ln10 m_e c^2 / (pi N_A e^2), about 4.319e-9 (cgs).
@@ -253,7 +257,10 @@ impl CdUnit {
     }
 }
 
-/// MRE = theta_deg * MRW / (10 l_cm c_mg_per_ml); returns MRW / (10 l c).
+/// Mean residue ellipticity is the molar ellipticity per residue:
+/// [theta]_MRW = 100 theta_deg / (l_cm c_residue_mol_per_l), with
+/// c_residue = c_g_per_ml * 1000 / MRW, i.e. theta_deg MRW / (10 l_cm c_g_per_ml)
+/// = [theta] MRW / M (standard CD texts). Returns the factor on theta_deg.
 fn mean_residue_factor(s: &SampleContext) -> Result<f64, UnitError> {
     let mrw = s.mean_residue_weight_g_per_mol.ok_or_else(|| {
         UnitError("mean residue ellipticity needs sample.mean_residue_weight_g_per_mol".into())
@@ -261,8 +268,8 @@ fn mean_residue_factor(s: &SampleContext) -> Result<f64, UnitError> {
     let c_g_per_ml = s.mass_concentration_g_per_ml().ok_or_else(|| {
         UnitError("mean residue ellipticity needs sample.molar_mass_g_per_mol".into())
     })?;
-    let c_mg_per_ml = c_g_per_ml * 1000.0;
-    Ok(mrw / (10.0 * s.path_length_cm * c_mg_per_ml))
+    let residue_mol_per_l = c_g_per_ml * CM3_PER_LITRE / mrw;
+    Ok(MOLAR_PER_OBSERVED / (s.path_length_cm * residue_mol_per_l))
 }
 
 /// The optical rotation units of the trade.
@@ -344,7 +351,7 @@ pub fn specific_rotation(phi_deg: f64, s: &SampleContext) -> Result<f64, UnitErr
 
 /// [Phi] = [alpha] M / 100 = 100 phi / (l_cm c_mol_per_l); needs no molar mass.
 pub fn molar_rotation_from_degrees(phi_deg: f64, s: &SampleContext) -> f64 {
-    100.0 * phi_deg / (s.path_length_cm * s.concentration_mol_per_l)
+    MOLAR_PER_OBSERVED * phi_deg / (s.path_length_cm * s.concentration_mol_per_l)
 }
 
 /// Converts the 1e-40 cgs unit of rotatory strength to esu^2 cm^2.

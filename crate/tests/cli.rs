@@ -32,13 +32,80 @@ fn eval_writes_one_row_per_grid_point_with_unit_headers() {
     {
         assert!(header.contains(&col), "missing column {col}");
     }
-    let rows: Vec<Vec<f64>> = lines.map(|l| l.split(',').map(|c| c.parse().unwrap()).collect()).collect();
+    let rows: Vec<Vec<f64>> = lines.map(parse_row).collect();
     assert_eq!(rows.len(), 401);
     assert_eq!(rows[0][0], 200.0);
     assert!((rows[400][0] - 400.0).abs() < 1e-9);
     assert!(rows.iter().all(|r| r.len() == header.len()));
     // wavelength and wavenumber agree: nu = 1e7 / lambda.
     assert!(rows.iter().all(|r| (r[0] * r[1] - 1e7).abs() < 1e-6));
+}
+
+/// A CSV row; an empty cell is a missing value (NaN).
+fn parse_row(line: &str) -> Vec<f64> {
+    line.split(',').map(|c| if c.is_empty() { f64::NAN } else { c.parse().unwrap_or_else(|_| panic!("bad cell {c}")) }).collect()
+}
+
+fn column(text: &str, name: &str) -> Vec<f64> {
+    let mut lines = text.lines();
+    let header: Vec<&str> = lines.next().unwrap().split(',').collect();
+    let i = header.iter().position(|h| *h == name).unwrap_or_else(|| panic!("no column {name} in {header:?}"));
+    lines.map(|l| parse_row(l)[i]).collect()
+}
+
+#[test]
+fn eval_writes_every_cd_unit_the_page_shows() {
+    // A protein-like invented sample: 15 kDa, MRW 110, 1 mm, 0.2 mg/mL.
+    let text = std::fs::read_to_string(demo()).unwrap().replacen(
+        "\"molar_mass_g_per_mol\": 312.4,",
+        "\"molar_mass_g_per_mol\": 15000, \"mean_residue_weight_g_per_mol\": 110,",
+        1,
+    );
+    let p = temp_doc("protein-like.json", &text);
+    let out = chiroptic(&["eval", p.to_str().unwrap(), "--from", "190", "--to", "260", "--step", "1"]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let csv = String::from_utf8(out.stdout).unwrap();
+    let de = column(&csv, "delta_epsilon_M-1_cm-1");
+    let molar = column(&csv, "molar_ellipticity_deg_cm2_dmol-1");
+    let mre = column(&csv, "mean_residue_ellipticity_deg_cm2_dmol-1");
+    for i in 0..de.len() {
+        // [theta] = 3298.2 De (Kelly, Jess and Price 2005) and MRE = [theta] MRW / M.
+        assert!((molar[i] - 3298.2 * de[i]).abs() <= 1e-4 * molar[i].abs() + 1e-9, "row {i}");
+        assert!((mre[i] - molar[i] * 110.0 / 15000.0).abs() <= 1e-12 * mre[i].abs() + 1e-12, "row {i}");
+    }
+    // Without a mean residue weight there is no MRE column, but [theta] stays.
+    let out = chiroptic(&["eval", &demo(), "--from", "200", "--to", "210", "--step", "1"]);
+    let csv = String::from_utf8(out.stdout).unwrap();
+    let header = csv.lines().next().unwrap();
+    assert!(header.contains("molar_ellipticity_deg_cm2_dmol-1") && !header.contains("mean_residue"), "{header}");
+}
+
+#[test]
+fn g_is_missing_where_there_is_no_absorption() {
+    // The demo's bands absorb below ~330 nm; at 600 nm e is far below 1e-3 of
+    // its maximum, so g is an empty cell, not a ratio of tails.
+    let out = chiroptic(&["eval", &demo(), "--from", "190", "--to", "650", "--step", "1"]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let csv = String::from_utf8(out.stdout).unwrap();
+    let g = column(&csv, "g_factor");
+    let eps = column(&csv, "epsilon_M-1_cm-1");
+    let max = eps.iter().fold(0.0_f64, |m, e| m.max(e.abs()));
+    for (gi, e) in g.iter().zip(&eps) {
+        assert_eq!(gi.is_nan(), e.abs() <= 1e-3 * max, "g {gi} at e {e}");
+        // |g| <= 2 by definition wherever it is reported (physics.md).
+        assert!(gi.is_nan() || gi.abs() <= 2.0);
+    }
+    assert!(g.last().unwrap().is_nan() && !g[10].is_nan());
+}
+
+#[test]
+fn water_preset_is_refused_outside_its_fitted_range() {
+    // Daimon and Masumura's water fit covers 182-1129 nm; below it the series
+    // passes a pole at 161.9 nm (physics.md), so the grid is refused.
+    for (from, to) in [("150", "300"), ("163", "300"), ("300", "1200")] {
+        let out = chiroptic(&["eval", &demo(), "--from", from, "--to", to, "--step", "1"]);
+        assert_bad_input(&out, &["water-20c", "182", "1129"]);
+    }
 }
 
 #[test]
@@ -84,6 +151,14 @@ fn bad_documents_exit_2_with_one_line_naming_file_and_field() {
     let p = temp_doc("broken.json", "{\"chiroptic\": 1, \"sample\": ");
     assert_bad_input(&chiroptic(&["eval", p.to_str().unwrap()]), &["broken.json", "JSON"]);
     assert_bad_input(&chiroptic(&["eval", "/nonexistent/model.json"]), &["/nonexistent/model.json"]);
+}
+
+#[test]
+fn bands_with_dissymmetry_beyond_two_are_refused() {
+    // |g| = 4|R|/D <= 2 (physics.md): R = 20000 with D = 1 would give g = 8.
+    let text = std::fs::read_to_string(demo()).unwrap().replacen("\"rotatory_strength_1e40_cgs\": 9.0", "\"rotatory_strength_1e40_cgs\": 20000", 1);
+    let p = temp_doc("too-dissymmetric.json", &text);
+    assert_bad_input(&chiroptic(&["eval", p.to_str().unwrap()]), &["bands[0].dipole_strength_debye2", "smallest D", "4 D²"]);
 }
 
 #[test]

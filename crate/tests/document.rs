@@ -142,3 +142,23 @@ fn oversized_input_is_refused_before_parsing() {
     let e = error_of("[1, 2, ");
     assert_eq!(e.kind, ErrorKind::Syntax);
 }
+
+#[test]
+fn a_band_with_dissymmetry_beyond_two_is_refused() {
+    // |g| = |De/e| <= 2 because e_L, e_R >= 0 (physics.md); at a band's
+    // centre g = 4R/D with R in 1e-40 and D in 1e-36 esu^2 cm^2, so
+    // D >= 2e-4 |R| debye^2. R = 10 needs D >= 0.002.
+    let e = error_of(&with("\"dipole_strength_debye2\": 2.0", "\"dipole_strength_debye2\": 0.0019"));
+    assert_eq!(e.kind, ErrorKind::OutOfRange);
+    assert_eq!(e.field, "bands[0].dipole_strength_debye2");
+    assert!(e.message.contains("0.002"), "{}", e.message);
+    // D = 0 with R != 0 likewise; the limit itself and R = 0 with D = 0 are valid.
+    let e = error_of(&with("\"dipole_strength_debye2\": 2.0", "\"dipole_strength_debye2\": 0"));
+    assert_eq!(e.field, "bands[0].dipole_strength_debye2");
+    assert!(Model::from_json(&with("\"dipole_strength_debye2\": 2.0", "\"dipole_strength_debye2\": 0.002")).is_ok());
+    let achiral = with("\"rotatory_strength_1e40_cgs\": 10.0, \"dipole_strength_debye2\": 2.0", "\"rotatory_strength_1e40_cgs\": 0, \"dipole_strength_debye2\": 0");
+    assert!(Model::from_json(&achiral).is_ok());
+    // A negative R is limited by its magnitude.
+    let e = error_of(&with("\"rotatory_strength_1e40_cgs\": -4.0", "\"rotatory_strength_1e40_cgs\": -40000"));
+    assert_eq!(e.field, "bands[1].dipole_strength_debye2");
+}

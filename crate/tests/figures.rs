@@ -61,8 +61,8 @@ fn draw_1x(req: &PlotRequest, w: u32, h: u32) -> (String, PlotFrame) {
 #[test]
 fn cd_svg_has_the_trade_labels_and_a_declared_size() {
     let m = demo();
-    let s = spectra(&m, 180.0, 400.0, 600, AxisUnit::Nanometre);
-    let req = PlotRequest::new(PlotKind::Cd, &s, AxisUnit::Nanometre, (180.0, 400.0));
+    let s = spectra(&m, 190.0, 400.0, 600, AxisUnit::Nanometre);
+    let req = PlotRequest::new(PlotKind::Cd, &s, AxisUnit::Nanometre, (190.0, 400.0));
     let out = svg(&req, 800, 500).expect("svg");
     assert!(out.starts_with("<svg width=\"800\" height=\"500\""), "{}", &out[..80]);
     let t = texts(&out);
@@ -74,9 +74,9 @@ fn cd_svg_has_the_trade_labels_and_a_declared_size() {
 #[test]
 fn every_unit_labels_its_axis() {
     let m = demo();
-    let s = spectra(&m, 180.0, 400.0, 300, AxisUnit::Nanometre);
+    let s = spectra(&m, 190.0, 400.0, 300, AxisUnit::Nanometre);
     for unit in CdUnit::ALL {
-        let mut req = PlotRequest::new(PlotKind::Cd, &s, AxisUnit::Nanometre, (180.0, 400.0));
+        let mut req = PlotRequest::new(PlotKind::Cd, &s, AxisUnit::Nanometre, (190.0, 400.0));
         req.cd_unit = unit;
         match svg(&req, 640, 400) {
             Ok(out) => {
@@ -94,7 +94,7 @@ fn every_unit_labels_its_axis() {
         }
     }
     for unit in OrdUnit::ALL {
-        let mut req = PlotRequest::new(PlotKind::Ord, &s, AxisUnit::Nanometre, (180.0, 400.0));
+        let mut req = PlotRequest::new(PlotKind::Ord, &s, AxisUnit::Nanometre, (190.0, 400.0));
         req.ord_unit = unit;
         let t = texts(&svg(&req, 640, 400).expect("ord svg"));
         let symbol = unit.label().split(" / ").next().unwrap_or_default().split(" = ").next().unwrap_or_default();
@@ -105,8 +105,8 @@ fn every_unit_labels_its_axis() {
 #[test]
 fn the_sum_is_drawn_where_the_frame_says_its_values_are() {
     let m = demo();
-    let s = spectra(&m, 180.0, 400.0, 441, AxisUnit::Nanometre);
-    let mut req = PlotRequest::new(PlotKind::Cd, &s, AxisUnit::Nanometre, (180.0, 400.0));
+    let s = spectra(&m, 190.0, 400.0, 441, AxisUnit::Nanometre);
+    let mut req = PlotRequest::new(PlotKind::Cd, &s, AxisUnit::Nanometre, (190.0, 400.0));
     req.show_contributions = false;
     let (out, frame) = draw_1x(&req, 800, 500);
     let sum = polylines(&out, &theme(false).hex()[1], 2);
@@ -136,11 +136,11 @@ fn the_sum_is_drawn_where_the_frame_says_its_values_are() {
 #[test]
 fn reversed_ranges_draw_a_reversed_axis() {
     let m = demo();
-    let s = spectra(&m, 25_000.0, 56_000.0, 400, AxisUnit::Wavenumber);
-    let req = PlotRequest::new(PlotKind::Cd, &s, AxisUnit::Wavenumber, (56_000.0, 25_000.0));
+    let s = spectra(&m, 25_000.0, 54_000.0, 400, AxisUnit::Wavenumber);
+    let req = PlotRequest::new(PlotKind::Cd, &s, AxisUnit::Wavenumber, (54_000.0, 25_000.0));
     let (out, frame) = draw_1x(&req, 800, 500);
     assert!(frame.x_at(f64::from(frame.left)) > frame.x_at(f64::from(frame.right)));
-    assert!((frame.x_at(f64::from(frame.left)) - 56_000.0).abs() < 1e-6);
+    assert!((frame.x_at(f64::from(frame.left)) - 54_000.0).abs() < 1e-6);
     let t = texts(&out);
     assert!(t.iter().any(|x| x == "ν\u{303} / cm⁻¹"), "{t:?}");
     assert!(t.iter().any(|x| x == "50000"), "{t:?}");
@@ -149,8 +149,8 @@ fn reversed_ranges_draw_a_reversed_axis() {
 #[test]
 fn index_plot_has_delta_n_on_a_secondary_axis() {
     let m = demo();
-    let s = spectra(&m, 180.0, 650.0, 400, AxisUnit::Nanometre);
-    let mut req = PlotRequest::new(PlotKind::Index, &s, AxisUnit::Nanometre, (180.0, 650.0));
+    let s = spectra(&m, 190.0, 650.0, 400, AxisUnit::Nanometre);
+    let mut req = PlotRequest::new(PlotKind::Index, &s, AxisUnit::Nanometre, (190.0, 650.0));
     req.legend = true;
     let (out, frame) = draw_1x(&req, 800, 500);
     let (lo, hi) = frame.y2_range.expect("secondary axis");
@@ -167,10 +167,10 @@ fn index_plot_has_delta_n_on_a_secondary_axis() {
 #[test]
 fn non_finite_points_break_the_line_instead_of_failing() {
     let m = demo();
-    let mut s = spectra(&m, 180.0, 400.0, 300, AxisUnit::Nanometre);
+    let mut s = spectra(&m, 190.0, 400.0, 300, AxisUnit::Nanometre);
     s.delta_epsilon[150] = f64::NAN;
     s.delta_epsilon[151] = f64::INFINITY;
-    let mut req = PlotRequest::new(PlotKind::Cd, &s, AxisUnit::Nanometre, (180.0, 400.0));
+    let mut req = PlotRequest::new(PlotKind::Cd, &s, AxisUnit::Nanometre, (190.0, 400.0));
     req.show_contributions = false;
     let (out, _) = draw_1x(&req, 800, 500);
     assert_eq!(polylines(&out, &theme(false).hex()[1], 2).len(), 2, "the sum should be drawn in two pieces");
@@ -179,15 +179,15 @@ fn non_finite_points_break_the_line_instead_of_failing() {
 #[test]
 fn bad_requests_are_errors() {
     let m = demo();
-    let s = spectra(&m, 180.0, 400.0, 100, AxisUnit::Nanometre);
+    let s = spectra(&m, 190.0, 400.0, 100, AxisUnit::Nanometre);
     let req = |range| PlotRequest::new(PlotKind::Ord, &s, AxisUnit::Nanometre, range);
     let kind = |r: PlotRequest| svg(&r, 600, 400).map(|_| ()).map_err(|e| e.kind);
     assert_eq!(kind(req((300.0, 300.0))), Err(ErrorKind::OutOfRange));
     assert_eq!(kind(req((f64::NAN, 300.0))), Err(ErrorKind::OutOfRange));
     assert_eq!(kind(req((-1.0, 300.0))), Err(ErrorKind::NotPositive));
     assert_eq!(kind(req((500.0, 600.0))), Err(ErrorKind::OutOfRange), "no points in range");
-    assert_eq!(svg(&req((180.0, 400.0)), 10, 400).map(|_| ()).map_err(|e| e.kind), Err(ErrorKind::OutOfRange));
-    let mut r = req((180.0, 400.0));
+    assert_eq!(svg(&req((190.0, 400.0)), 10, 400).map(|_| ()).map_err(|e| e.kind), Err(ErrorKind::OutOfRange));
+    let mut r = req((190.0, 400.0));
     r.highlight = Some(99);
     assert!(svg(&r, 600, 400).is_ok(), "an unknown highlight is ignored");
 }
@@ -195,8 +195,8 @@ fn bad_requests_are_errors() {
 #[test]
 fn dark_theme_and_pixel_ratio_change_colours_and_sizes() {
     let m = demo();
-    let s = spectra(&m, 180.0, 400.0, 100, AxisUnit::Nanometre);
-    let mut req = PlotRequest::new(PlotKind::Absorption, &s, AxisUnit::Nanometre, (180.0, 400.0));
+    let s = spectra(&m, 190.0, 400.0, 100, AxisUnit::Nanometre);
+    let mut req = PlotRequest::new(PlotKind::Absorption, &s, AxisUnit::Nanometre, (190.0, 400.0));
     req.dark = true;
     let (out, _) = draw_1x(&req, 600, 400);
     let bg = theme(true).hex()[0].to_ascii_uppercase();
@@ -218,8 +218,8 @@ fn dark_theme_and_pixel_ratio_change_colours_and_sizes() {
 #[test]
 fn readout_gives_the_plotted_values_at_the_nearest_point() {
     let m = demo();
-    let s = spectra(&m, 180.0, 400.0, 221, AxisUnit::Nanometre);
-    let mut req = PlotRequest::new(PlotKind::Cd, &s, AxisUnit::Nanometre, (180.0, 400.0));
+    let s = spectra(&m, 190.0, 400.0, 211, AxisUnit::Nanometre);
+    let mut req = PlotRequest::new(PlotKind::Cd, &s, AxisUnit::Nanometre, (190.0, 400.0));
     req.cd_unit = CdUnit::Millidegrees;
     let r = figures::readout(&req, 235.2).expect("readout");
     assert!((r.x - 235.0).abs() < 1e-9, "{}", r.x);
@@ -246,7 +246,7 @@ mod extreme_values {
             width in 1e-6..300.0f64,
         ) {
             let m = demo();
-            let mut s = spectra(&m, 180.0, 400.0, 50, AxisUnit::Nanometre);
+            let mut s = spectra(&m, 190.0, 400.0, 50, AxisUnit::Nanometre);
             s.delta_epsilon = values.clone();
             s.epsilon = values.iter().map(|v| v * 0.5).collect();
             s.rotation_deg = values.iter().rev().copied().collect();

@@ -224,7 +224,8 @@ fn band() -> impl Strategy<Value = BandDoc> {
                 fwhm_cm1: width_frac * center_cm1,
                 lorentz_fwhm_cm1: lorentz,
                 rotatory_strength_1e40_cgs: r,
-                dipole_strength_debye2: d,
+                // A valid band has |g| = 4|R|/D <= 2 (physics.md).
+                dipole_strength_debye2: d.max(chiroptic::model::dissymmetry_limited_dipole_strength(r)),
             }
         })
 }

@@ -142,26 +142,30 @@ impl Lineshape {
     /// imaginary part is Im s(nu), see [`Lineshape::value`]).
     pub fn mean_dispersion(&self, nu: f64) -> f64 {
         match *self {
-            Lineshape::Lorentz { center, gamma } => LorentzMean::new(center, gamma).at(nu),
+            Lineshape::Lorentz { center, gamma } => LorentzMean::new(center, gamma).at(nu, nu.ln()),
             Lineshape::Gaussian { center, delta } => GaussianTerms::new(center, delta).mean_at(nu),
             Lineshape::Voigt { center, delta, lorentz_fwhm } => voigt_mean(center, delta, lorentz_fwhm, nu),
         }
     }
 
     /// The chiral shape s and the mean dispersion Re s~ on a whole grid, in
-    /// one pass (the Gaussian's Dawson and the Voigt's Faddeeva calls serve both).
-    pub fn values_with_mean(&self, nu: &[f64]) -> (Vec<Complex64>, Vec<f64>) {
+    /// one pass (the Gaussian's Dawson and the Voigt's Faddeeva calls serve
+    /// both). `ln_nu` holds ln(nu) of each point ([`ln_grid`]), computed once
+    /// for all bands.
+    pub fn values_with_mean(&self, nu: &[f64], ln_nu: &[f64]) -> (Vec<Complex64>, Vec<f64>) {
         match *self {
             Lineshape::Lorentz { center, gamma } => {
                 let mean = LorentzMean::new(center, gamma);
-                (nu.iter().map(|x| lorentz(center, gamma, *x)).collect(), nu.iter().map(|x| mean.at(*x)).collect())
+                let shape = nu.iter().map(|x| lorentz(center, gamma, *x)).collect();
+                (shape, nu.iter().zip(ln_nu).map(|(x, l)| mean.at(*x, *l)).collect())
             }
             Lineshape::Gaussian { center, delta } => {
                 let g = GaussianTerms::new(center, delta);
                 nu.iter().map(|x| g.both_at(*x)).unzip()
             }
             Lineshape::Voigt { center, delta, lorentz_fwhm } => {
-                nu.iter().map(|x| voigt_both(center, delta, lorentz_fwhm, *x)).unzip()
+                let mirror = VoigtMirror::new(center, delta, lorentz_fwhm);
+                nu.iter().zip(ln_nu).map(|(x, l)| voigt_both(center, delta, lorentz_fwhm, &mirror, *x, *l)).unzip()
             }
         }
     }
@@ -254,9 +258,8 @@ struct LorentzMean {
     gamma2: f64,
     /// The root u1 = a - G^2/2 + i G sqrt(a - G^2/4) (G < nu_j is validated).
     u1: Complex64,
-    /// c1 without its b-dependence: u1 / (u1 - u1*), and Log(-u1).
-    c1_base: Complex64,
-    log_minus_u1: Complex64,
+    /// K = Log(-u1) u1 / (u1 - u1*), so that c1 Log(-u1) = K / (u1 - b).
+    k: Complex64,
     scale: f64,
 }
 
@@ -269,20 +272,20 @@ impl LorentzMean {
             a,
             gamma2,
             u1,
-            c1_base: u1 / Complex64::new(0.0, 2.0 * u1.im),
-            log_minus_u1: (-u1).ln(),
+            k: (-u1).ln() * u1 / Complex64::new(0.0, 2.0 * u1.im),
             scale: (2.0 / PI) * (2.0 / PI) * gamma / 2.0,
         }
     }
 
+    /// `ln_nu` is ln(nu), shared by every band of a grid.
     #[inline]
-    fn at(&self, nu: f64) -> f64 {
+    fn at(&self, nu: f64, ln_nu: f64) -> f64 {
         let b = nu * nu;
+        // |b - u1|^2 = Q(b): c_b = b/Q(b), and K/(u1 - b) = K conj(u1 - b)/Q(b).
         let q_b = (b - self.a) * (b - self.a) + self.gamma2 * b;
-        let c_b = b / q_b;
-        let c1 = self.c1_base / (self.u1 - b);
+        let pair = self.k.re * (self.u1.re - b) + self.k.im * self.u1.im;
         // c2 = conj(c1) and Log(-u2) = conj(Log(-u1)): the pair is twice the real part.
-        self.scale * -(c_b * b.ln() + 2.0 * (c1 * self.log_minus_u1).re)
+        -self.scale * (b * 2.0 * ln_nu + 2.0 * pair) / q_b
     }
 }
 
@@ -296,90 +299,138 @@ fn voigt(center: f64, delta: f64, lorentz_fwhm: f64, nu: f64) -> Complex64 {
 
 /// The Voigt pair: s = i/(sqrt(pi) Delta) [w(z1) + w(z2)] and the analytic
 /// odd-type combination i/(sqrt(pi) Delta) [w(z1) - w(z2)], whose real part
-/// is the mean dispersion up to [`voigt_mirror_correction`].
+/// is the mean dispersion up to the [`VoigtMirror`] correction.
 #[inline]
-fn voigt_both(center: f64, delta: f64, lorentz_fwhm: f64, nu: f64) -> (Complex64, f64) {
+fn voigt_both(center: f64, delta: f64, lorentz_fwhm: f64, mirror: &VoigtMirror, nu: f64, ln_nu: f64) -> (Complex64, f64) {
     let y = lorentz_fwhm / 2.0 / delta;
     let w1 = faddeeva(Complex64::new((nu - center) / delta, y));
     let w2 = faddeeva(Complex64::new((nu + center) / delta, y));
     let sum = w1 + w2;
     // Divided exactly as `voigt` does, so the chiral shape is bit-identical.
     let shape = Complex64::new(-sum.im, sum.re) / (PI.sqrt() * delta);
-    let mean = -(w1 - w2).im / (PI.sqrt() * delta) + voigt_mirror_correction(center, delta, lorentz_fwhm, nu);
+    let mean = -(w1 - w2).im / (PI.sqrt() * delta) + mirror.at(nu, ln_nu);
     (shape, mean)
 }
 
 fn voigt_mean(center: f64, delta: f64, lorentz_fwhm: f64, nu: f64) -> f64 {
-    voigt_both(center, delta, lorentz_fwhm, nu).1
+    voigt_both(center, delta, lorentz_fwhm, &VoigtMirror::new(center, delta, lorentz_fwhm), nu, nu.ln()).1
 }
 
 /// Terms of the asymptotic series w(z) ~ (i/sqrt(pi)) sum_k a_k z^-(2k+1),
-/// a_k = (2k-1)!!/2^k, used for the Voigt's far wing.
-const VOIGT_WING_TERMS: usize = 6;
+/// a_k = (2k-1)!!/2^k, at most; fewer when (Delta/nu_j)^2k is already small.
+const MIRROR_WING_TERMS: usize = 6;
+/// Below this |r| the near-pole series is used (20 terms: 0.3^20 = 3e-11 of
+/// a correction that is itself ~1e-4 of the shape).
+const MIRROR_SERIES_RATIO: f64 = 0.3;
+const MIRROR_SERIES_TERMS: usize = 20;
 
 /// The odd combination w(z1) - w(z2) has Im = A(nu) - A(-nu), A being the band
 /// at +nu_j; the odd extension of Im s differs from it by
 /// d(nu) = 2 sign(nu) A(-|nu|), the band's far Lorentzian wing on the other
 /// side of zero. Its n-k transform is (2/pi) int_0^inf A(-t) 2t/(t^2 - nu^2) dt.
-/// There |z| >= nu_j/Delta, so A(-t) = Re[(i/pi) sum_k a_k Delta^2k / (t - q)^(2k+1)],
-/// q = -nu_j - i G_L/2, to the series' accuracy, and each term integrates in
-/// closed form (partial fractions, J_m below). Zero for a pure Gaussian.
-fn voigt_mirror_correction(center: f64, delta: f64, lorentz_fwhm: f64, nu: f64) -> f64 {
-    if lorentz_fwhm == 0.0 {
-        return 0.0;
-    }
-    let q = Complex64::new(-center, -lorentz_fwhm / 2.0);
-    let log_minus_q = (-q).ln();
-    let ln_nu = nu.ln();
-    let mut total = Complex64::new(0.0, 0.0);
-    let mut a_k = 1.0;
-    let mut delta_pow = 1.0;
-    for k in 0..VOIGT_WING_TERMS {
-        let m = 2 * k + 1;
-        let i_m = mirror_j(m, nu, q, log_minus_q, ln_nu) + mirror_j(m, -nu, q, log_minus_q, ln_nu);
-        total += i_m * (a_k * delta_pow);
-        a_k *= (2 * k + 1) as f64 / 2.0;
-        delta_pow *= delta * delta;
-    }
-    // (2/pi) Re[(i/pi) total]
-    (2.0 / PI) * (-total.im / PI)
+/// There |z| >= nu_j/Delta, so A(-t) = Re[(i/pi) sum_k w_k / (t - q)^(2k+1)],
+/// w_k = a_k Delta^2k, q = -nu_j - i G_L/2, to the series' accuracy, and each
+/// term integrates in closed form: sum_k w_k [J_2k+1(nu) + J_2k+1(-nu)] with
+/// J_m(a) = P int_0^inf dt / ((t - a)(t - q)^m)
+///        = (Log(-q) - ln|a|) u^m - sum_{p=1..m-1} (-q)^-p u^(m-p) / p,  u = 1/(a - q).
+/// Those terms cancel where a nears q (a = -nu by the band); there
+/// 1/(t - a) = sum_n (a - q)^n/(t - q)^(n+1) gives
+/// J_m = (-q)^-m sum_n r^n/(m + n), r = (a - q)/(-q). Both sums over k are
+/// polynomials whose coefficients depend only on the band, computed once.
+/// Zero for a pure Gaussian (its wing falls faster than any power).
+#[derive(Clone, Copy)]
+struct VoigtMirror {
+    active: bool,
+    q: Complex64,
+    inv_minus_q: Complex64,
+    log_minus_q: Complex64,
+    terms: usize,
+    /// w_k for the logarithmic part, a polynomial in u^2 (times u).
+    log_coefficients: [Complex64; MIRROR_WING_TERMS],
+    /// C_e of u^e, e = 1..2K-1 (index e - 1).
+    power_coefficients: [Complex64; 2 * MIRROR_WING_TERMS],
+    /// c_n = sum_k w_k (-q)^-2k / (2k + 1 + n) of the near-pole series.
+    series_coefficients: [Complex64; MIRROR_SERIES_TERMS],
 }
 
-/// J_m(a) = P int_0^inf dt / ((t - a)(t - q)^m) for a = +-nu (real) and q
-/// off the positive axis. By partial fractions it is
-/// (Log(-q) - ln|a|)/(a - q)^m - sum_{j=2..m} (-q)^(1-j) / ((j - 1)(a - q)^(m-j+1)),
-/// whose terms cancel where a nears q (a = -nu close to the band's mirror
-/// pole); there 1/(t - a) = sum_n (a - q)^n / (t - q)^(n+1) gives the series
-/// (-q)^-m sum_n r^n / (m + n), r = (a - q)/(-q), used while |r| < 0.3
-/// (31 terms reach 1e-16).
-fn mirror_j(m: usize, a: f64, q: Complex64, log_minus_q: Complex64, ln_abs_a: f64) -> Complex64 {
-    let aq = a - q;
-    let inv_minus_q = 1.0 / (-q);
-    let r = aq * inv_minus_q;
-    if r.norm_sqr() < MIRROR_SERIES_RATIO * MIRROR_SERIES_RATIO {
-        let mut sum = Complex64::new(0.0, 0.0);
-        let mut r_pow = Complex64::new(1.0, 0.0);
-        for n in 0..MIRROR_SERIES_TERMS {
-            sum += r_pow / (m + n) as f64;
-            r_pow *= r;
+impl VoigtMirror {
+    fn new(center: f64, delta: f64, lorentz_fwhm: f64) -> VoigtMirror {
+        let zero = Complex64::new(0.0, 0.0);
+        let q = Complex64::new(-center, -lorentz_fwhm / 2.0);
+        let inv_minus_q = 1.0 / (-q);
+        // Terms until a_k (Delta/|q|)^2k < 1e-13.
+        let mut weights = [0.0; MIRROR_WING_TERMS];
+        let mut terms = 0;
+        let mut a_k = 1.0;
+        for (k, w) in weights.iter_mut().enumerate() {
+            *w = a_k * delta.powi(2 * k as i32);
+            terms = k + 1;
+            if a_k * (delta * delta / q.norm_sqr()).powi(k as i32) < 1e-13 {
+                break;
+            }
+            a_k *= (2 * k + 1) as f64 / 2.0;
         }
-        return sum * inv_minus_q.powu(m as u32);
+        let mut log_coefficients = [zero; MIRROR_WING_TERMS];
+        let mut power_coefficients = [zero; 2 * MIRROR_WING_TERMS];
+        let mut series_coefficients = [zero; MIRROR_SERIES_TERMS];
+        for k in 0..terms {
+            let m = 2 * k + 1;
+            log_coefficients[k] = Complex64::new(weights[k], 0.0);
+            for p in 1..m {
+                power_coefficients[m - p - 1] += weights[k] * inv_minus_q.powu(p as u32) / p as f64;
+            }
+            let scaled = weights[k] * inv_minus_q.powu(2 * k as u32);
+            for (n, c) in series_coefficients.iter_mut().enumerate() {
+                *c += scaled / (m + n) as f64;
+            }
+        }
+        VoigtMirror {
+            active: lorentz_fwhm > 0.0,
+            q,
+            inv_minus_q,
+            log_minus_q: (-q).ln(),
+            terms,
+            log_coefficients,
+            power_coefficients,
+            series_coefficients,
+        }
     }
-    let inv_aq = 1.0 / aq;
-    let mut sum = Complex64::new(0.0, 0.0);
-    let mut aq_pow = inv_aq; // (a - q)^-(m - j + 1), starting at j = m
-    let mut q_pow = inv_minus_q.powu(m as u32 - 1); // (-q)^(1 - j) at j = m
-    for j in (2..=m).rev() {
-        sum += q_pow * aq_pow / (j - 1) as f64;
-        aq_pow *= inv_aq;
-        q_pow *= -q;
-    }
-    // aq_pow is now (a - q)^-m.
-    (log_minus_q - ln_abs_a) * aq_pow - sum
-}
 
-const MIRROR_SERIES_RATIO: f64 = 0.3;
-const MIRROR_SERIES_TERMS: usize = 32;
+    /// sum_k w_k J_2k+1(a) for real a.
+    #[inline]
+    fn j_sum(&self, a: f64, ln_abs_a: f64) -> Complex64 {
+        let aq = a - self.q;
+        let r = aq * self.inv_minus_q;
+        if r.norm_sqr() < MIRROR_SERIES_RATIO * MIRROR_SERIES_RATIO {
+            let mut sum = Complex64::new(0.0, 0.0);
+            for c in self.series_coefficients.iter().rev() {
+                sum = sum * r + c;
+            }
+            return sum * self.inv_minus_q;
+        }
+        let u = 1.0 / aq;
+        let u2 = u * u;
+        let mut log_part = Complex64::new(0.0, 0.0);
+        for c in self.log_coefficients[..self.terms].iter().rev() {
+            log_part = log_part * u2 + c;
+        }
+        let mut power_part = Complex64::new(0.0, 0.0);
+        for c in self.power_coefficients[..2 * self.terms - 1].iter().rev() {
+            power_part = power_part * u + c;
+        }
+        (self.log_minus_q - ln_abs_a) * u * log_part - power_part * u
+    }
+
+    #[inline]
+    fn at(&self, nu: f64, ln_nu: f64) -> f64 {
+        if !self.active {
+            return 0.0;
+        }
+        let total = self.j_sum(nu, ln_nu) + self.j_sum(-nu, ln_nu);
+        // (2/pi) Re[(i/pi) total]
+        (2.0 / PI) * (-total.im / PI)
+    }
+}
 
 /// exp(-x^2), skipping the library's slow underflow path where the result
 /// is exactly zero in f64 anyway (x^2 > 745.2).
@@ -391,6 +442,11 @@ fn gauss(x: f64) -> f64 {
     } else {
         0.0
     }
+}
+
+/// ln(nu) of each grid point, for [`Lineshape::values_with_mean`].
+pub fn ln_grid(nu: &[f64]) -> Vec<f64> {
+    nu.iter().map(|x| x.ln()).collect()
 }
 
 /// The one-term Drude law every chiral shape tends to far from its band.

@@ -139,12 +139,13 @@ pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
     let mut dn_mean = vec![0.0; n];
     let mut k_mean = vec![0.0; n];
     let mut contributions = Vec::with_capacity(model.bands.len());
+    let ln_nu = crate::lineshape::ln_grid(wavenumber_cm1);
     for band in &model.bands {
         let r = chiral_scale * band.rotatory_strength_esu2_cm2;
         let d = mean_scale * band.dipole_strength_esu2_cm2;
         // The chiral pair takes the odd-type shape s, the mean index the
         // even-type s~ (same Im on nu > 0; see lineshape).
-        let (shape, mean_re) = band.lineshape.values_with_mean(wavenumber_cm1);
+        let (shape, mean_re) = band.lineshape.values_with_mean(wavenumber_cm1, &ln_nu);
         for (i, s) in shape.iter().enumerate() {
             delta_n[i] += r * s.re;
             delta_k[i] += r * s.im;

@@ -8,6 +8,7 @@
 pub mod document;
 pub mod error;
 pub mod figures;
+pub mod import;
 pub mod kk;
 pub mod lines;
 pub mod link;

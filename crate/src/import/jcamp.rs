@@ -1,0 +1,1 @@
+//! JCAMP-DX (IUPAC) spectra: being written; see `parse`.

@@ -123,69 +123,18 @@ build_page() {
         --out-dir "$stage" "$TARGET_DIR/$WASM_TARGET/wasm-release/chiroptic.wasm"
     optimise_wasm "$stage/chiroptic_bg.wasm"
     rm -rf "$DIST" && mkdir -p "$DIST/pkg"
-    cp "$ROOT"/www/index.html "$ROOT"/www/app.js "$ROOT"/www/style.css "$DIST/"
+    cp "$ROOT"/www/index.html "$ROOT"/www/style.css "$DIST/"
+    cp -r "$ROOT"/www/js "$DIST/js"
     cp "$stage/chiroptic.js" "$stage/chiroptic_bg.wasm" "$DIST/pkg/"
     say "page in dist/ (wasm: $(wc -c <"$DIST/pkg/chiroptic_bg.wasm") bytes)"
 }
 
-# dist/chiroptic.html from the built page in dist/: the stylesheet inline,
-# the wasm-bindgen glue as a data: module that an import map puts where the
-# page imports it from, the wasm bytes as base64 that app.js hands to the
-# glue's init, and a Content-Security-Policy that names the two inline
-# scripts by hash and allows no fetch at all.
+# dist/chiroptic.html from the built page in dist/: www/tools/single.mjs
+# bundles the module graph with esbuild (an npm package of tests/).
 build_single() {
     command -v node >/dev/null || apt_install nodejs || die "node is needed to assemble the single file"
-    node --input-type=module - "$DIST" <<'NODE'
-import { readFileSync, writeFileSync } from "node:fs";
-import { createHash } from "node:crypto";
-import { join } from "node:path";
-
-const dist = process.argv[2];
-const read = (name) => readFileSync(join(dist, name));
-const fail = (why) => {
-  console.error(`build.sh single: ${why}`);
-  process.exit(1);
-};
-// Text that would end an inline element early.
-const inlineSafe = (text, tag) => {
-  if (new RegExp(`</${tag}`, "i").test(text)) fail(`${tag} text contains "</${tag}"`);
-  if (tag === "script" && text.includes("<!--")) fail('script text contains "<!--"');
-  return text;
-};
-const sha256 = (text) => `'sha256-${createHash("sha256").update(text, "utf8").digest("base64")}'`;
-
-let html = read("index.html").toString("utf8");
-const app = inlineSafe(read("app.js").toString("utf8"), "script");
-const css = inlineSafe(read("style.css").toString("utf8"), "style");
-const glue = read("pkg/chiroptic.js").toString("base64");
-const wasm = read("pkg/chiroptic_bg.wasm").toString("base64");
-
-const importmap = JSON.stringify({ imports: { "./pkg/chiroptic.js": `data:text/javascript;base64,${glue}` } });
-const policy = [
-  "default-src 'none'",
-  `script-src ${sha256(importmap)} ${sha256(app)} data: 'wasm-unsafe-eval'`,
-  "style-src 'unsafe-inline'",
-  "img-src data: blob:",
-  "connect-src 'none'",
-  "object-src 'none'",
-  "base-uri 'none'",
-  "form-action 'none'",
-].join("; ");
-
-const swap = (pattern, replacement, what) => {
-  if (!pattern.test(html)) fail(`dist/index.html has no ${what}`);
-  html = html.replace(pattern, () => replacement);
-};
-swap(/<meta http-equiv="Content-Security-Policy" content="[^"]*">/, `<meta http-equiv="Content-Security-Policy" content="${policy}">`, "CSP meta tag");
-swap(/<link rel="stylesheet" href="style.css">/, `<style>
-${css}</style>`, "stylesheet link");
-swap(/<script type="module" src="app.js"><\/script>/, `<script type="importmap">${importmap}</script>
-<script type="module">${app}</script>`, "module script");
-swap(/<\/body>/, `<script type="application/octet-stream" id="chiroptic-wasm">${wasm}</script>
-</body>`, "</body>");
-writeFileSync(join(dist, "chiroptic.html"), html);
-console.error(`build.sh single: dist/chiroptic.html (${html.length} bytes)`);
-NODE
+    ensure_npm_packages
+    node "$ROOT/www/tools/single.mjs" "$DIST"
 }
 
 serve() {
@@ -210,8 +159,13 @@ ensure_test_tools() {
         say "installing Debian's chromium for the browser tests"
         apt_install chromium || die "cannot install chromium (apt-get install chromium)"
     fi
+    ensure_npm_packages
+}
+
+# The npm packages of tests/ (playwright-core, esbuild): npm ci only when the
+# lock changed since the last install.
+ensure_npm_packages() {
     command -v npm >/dev/null || apt_install nodejs npm || die "cannot install node and npm"
-    # npm ci only when the lock changed since the last install.
     local stamp="$ROOT/tests/node_modules/.chiroptic-lock"
     if ! cmp -s "$ROOT/tests/package-lock.json" "$stamp"; then
         say "installing the test packages (npm ci in tests/)"

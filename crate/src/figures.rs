@@ -39,42 +39,11 @@ use plotters::coord::ranged1d::{DefaultFormatting, KeyPointHint};
 use plotters::coord::Shift;
 use plotters::prelude::*;
 
-/// The four plots of the workbench.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum PlotKind {
-    Cd,
-    Ord,
-    Absorption,
-    Index,
-}
+pub use crate::view::PlotKind;
 
-impl PlotKind {
-    pub const ALL: [PlotKind; 4] = [PlotKind::Cd, PlotKind::Ord, PlotKind::Absorption, PlotKind::Index];
-
-    /// Short machine name used in documents, links and the CLI.
-    pub fn key(self) -> &'static str {
-        match self {
-            PlotKind::Cd => "cd",
-            PlotKind::Ord => "ord",
-            PlotKind::Absorption => "abs",
-            PlotKind::Index => "index",
-        }
-    }
-
-    pub fn parse(key: &str) -> Option<PlotKind> {
-        PlotKind::ALL.into_iter().find(|k| k.key() == key)
-    }
-
-    /// A human name for headings and menus.
-    pub fn title(self) -> &'static str {
-        match self {
-            PlotKind::Cd => "Circular dichroism",
-            PlotKind::Ord => "Optical rotatory dispersion",
-            PlotKind::Absorption => "Absorption",
-            PlotKind::Index => "Refractive indices",
-        }
-    }
-}
+/// The font sizes an export may ask for, in CSS pixels.
+pub const MIN_FONT_PX: f64 = 6.0;
+pub const MAX_FONT_PX: f64 = 40.0;
 
 /// Axis label of the mean molar absorption coefficient.
 pub const EPSILON_LABEL: &str = "ε / M⁻¹ cm⁻¹";
@@ -176,6 +145,10 @@ pub struct PlotRequest<'a> {
     /// Backend pixels per CSS pixel (a HiDPI canvas passes devicePixelRatio):
     /// text and lines scale with it, so the picture looks the same.
     pub pixel_ratio: f64,
+    /// The left axis's value range, held (while a peak is dragged); None: fitted to the traces.
+    pub y_range: Option<(f64, f64)>,
+    /// Tick label size in CSS pixels (an export's font size); None: follows the figure's size.
+    pub font_px: Option<f64>,
 }
 
 impl<'a> PlotRequest<'a> {
@@ -193,17 +166,24 @@ impl<'a> PlotRequest<'a> {
             highlight: None,
             legend: false,
             pixel_ratio: 1.0,
+            y_range: None,
+            font_px: None,
         }
     }
 
     /// The y-axis label (left axis).
     pub fn y_label(&self) -> &'static str {
-        match self.kind {
-            PlotKind::Cd => self.cd_unit.label(),
-            PlotKind::Ord => self.ord_unit.label(),
-            PlotKind::Absorption => EPSILON_LABEL,
-            PlotKind::Index => INDEX_LABEL,
-        }
+        y_label(self.kind, self.cd_unit, self.ord_unit)
+    }
+}
+
+/// The y-axis label (left axis) of a plot in the given units.
+pub fn y_label(kind: PlotKind, cd_unit: CdUnit, ord_unit: OrdUnit) -> &'static str {
+    match kind {
+        PlotKind::Cd => cd_unit.label(),
+        PlotKind::Ord => ord_unit.label(),
+        PlotKind::Absorption => EPSILON_LABEL,
+        PlotKind::Index => INDEX_LABEL,
     }
 }
 
@@ -574,14 +554,16 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, req: &PlotRequest
         PlotKind::Index => None,
     };
     let primary = sums.iter().chain(&bands).filter(|t| !t.secondary);
-    let (y_lo, y_hi) = value_range(primary, &visible, zero);
+    let held = req.y_range.filter(|(a, b)| a.is_finite() && b.is_finite() && a < b);
+    let (y_lo, y_hi) = held.unwrap_or_else(|| value_range(primary, &visible, zero));
     let secondary_wanted = sums.iter().chain(&bands).any(|t| t.secondary);
     let y2 = secondary_wanted.then(|| value_range(sums.iter().chain(&bands).filter(|t| t.secondary), &visible, Some(0.0)));
 
     let (w, h) = area.dim_in_pixel();
     let ratio = if req.pixel_ratio.is_finite() { req.pixel_ratio.clamp(0.25, 8.0) } else { 1.0 };
     let css_size = (f64::from(w) / ratio).min(f64::from(h) / ratio * 1.6);
-    let font_px = (css_size / 48.0).clamp(11.0, 18.0) * ratio;
+    let css_font = req.font_px.filter(|f| f.is_finite()).map(|f| f.clamp(MIN_FONT_PX, MAX_FONT_PX));
+    let font_px = css_font.unwrap_or_else(|| (css_size / 48.0).clamp(11.0, 18.0)) * ratio;
     let line_scale = font_px / 13.0;
     let tick_font = ("sans-serif", font_px).into_font().color(&theme.text);
     let desc_font = ("sans-serif", font_px * 1.08).into_font().color(&theme.text);

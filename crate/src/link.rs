@@ -18,7 +18,7 @@
 //! Decoding is bounded: a link longer than [`MAX_LINK_CHARS`] is refused
 //! before any work, inflation stops at [`MAX_INFLATED_BYTES`], and the result
 //! is checked like any document (strict fields, [`Model::from_document`], and
-//! [`check_view`]). Every failure is one [`Error`]:
+//! [`crate::view::check`]). Every failure is one [`Error`]:
 //!
 //! | problem                         | kind            |
 //! |---------------------------------|-----------------|
@@ -32,12 +32,9 @@
 //! [`decode`]`(text) -> Result<Document>` takes a fragment, `#fragment` or a
 //! whole URL.
 
-use crate::document::{Document, ViewDoc, MAX_DOCUMENT_BYTES};
+use crate::document::{Document, MAX_DOCUMENT_BYTES};
 use crate::error::{Error, ErrorKind, Result};
-use crate::figures::PlotKind;
 use crate::model::Model;
-use crate::spectra::MAX_GRID_POINTS;
-use crate::units::{AxisUnit, CdUnit, OrdUnit};
 use base64::engine::general_purpose::URL_SAFE_NO_PAD;
 use base64::Engine;
 use serde_json::{Map, Value};
@@ -233,55 +230,9 @@ fn strip_version(fragment: &str) -> Result<&str> {
 pub fn validate(doc: &Document) -> Result<Model> {
     let model = Model::from_document(doc)?;
     if let Some(view) = &doc.view {
-        check_view(view)?;
+        crate::view::check(view)?;
     }
     Ok(model)
-}
-
-/// Checks the names and numbers of a view.
-pub fn check_view(view: &ViewDoc) -> Result<()> {
-    let unknown = |field: &str, value: &str, known: String| {
-        Error::new(ErrorKind::UnknownName, field, format!("unknown name \"{value}\" (known: {known})"))
-    };
-    if let Some(a) = &view.axis_unit {
-        AxisUnit::parse(a).ok_or_else(|| unknown("view.axis_unit", a, "nm, cm-1, ev".into()))?;
-    }
-    if let Some(u) = &view.cd_unit {
-        CdUnit::parse(u).ok_or_else(|| unknown("view.cd_unit", u, CdUnit::ALL.map(CdUnit::key).join(", ")))?;
-    }
-    if let Some(u) = &view.ord_unit {
-        OrdUnit::parse(u).ok_or_else(|| unknown("view.ord_unit", u, OrdUnit::ALL.map(OrdUnit::key).join(", ")))?;
-    }
-    if let Some(plots) = &view.plots {
-        if plots.len() > PlotKind::ALL.len() {
-            return Err(Error::new(ErrorKind::TooLarge, "view.plots", format!("at most {} plots", PlotKind::ALL.len())));
-        }
-        for (i, p) in plots.iter().enumerate() {
-            let field = format!("view.plots[{i}]");
-            PlotKind::parse(p).ok_or_else(|| unknown(&field, p, PlotKind::ALL.map(PlotKind::key).join(", ")))?;
-            if plots[..i].contains(p) {
-                return Err(Error::new(ErrorKind::OutOfRange, field, format!("\"{p}\" is listed twice")));
-            }
-        }
-    }
-    if let Some([a, b]) = view.range_nm {
-        for (i, v) in [a, b].into_iter().enumerate() {
-            crate::error::positive(&format!("view.range_nm[{i}]"), v, "range end")?;
-        }
-        if a == b {
-            return Err(Error::new(ErrorKind::OutOfRange, "view.range_nm", format!("the range is empty ({a} to {b} nm)")));
-        }
-    }
-    if let Some(p) = view.points {
-        if !(2..=MAX_GRID_POINTS).contains(&(p as usize)) {
-            return Err(Error::new(
-                ErrorKind::OutOfRange,
-                "view.points",
-                format!("number of points must lie in 2..{MAX_GRID_POINTS} (got {p})"),
-            ));
-        }
-    }
-    Ok(())
 }
 
 #[cfg(test)]

@@ -4,16 +4,14 @@
 // leaves the model on screen as it was, whether it arrives while the page
 // runs (hashchange) or with the first load (then the autosave, else the
 // demo, is shown).
-import { test, before, after } from "node:test";
+import { test } from "node:test";
 import assert from "node:assert/strict";
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
-import { startBrowser, openPage, ROOT } from "../lib/harness.mjs";
+import { browserTests, openPage, ROOT } from "../lib/harness.mjs";
 import { enter, plotHashes, savedModel } from "../lib/page.mjs";
 
-let env;
-before(async () => (env = await startBrowser()));
-after(async () => env && (await env.close()));
+const env = browserTests();
 
 const corpus = JSON.parse(readFileSync(join(ROOT, "fixtures", "bad-links", "corpus.json"), "utf8"));
 

@@ -4,15 +4,13 @@
 // canvas pixel for pixel (light, nothing emphasised), at 2x and 4x it has
 // that many more pixels per side. On a HiDPI screen the live canvases have
 // devicePixelRatio pixels per CSS pixel and the pointer still reads right.
-import { test, before, after } from "node:test";
+import { test } from "node:test";
 import assert from "node:assert/strict";
-import { startBrowser, openPage, DEMO } from "../lib/harness.mjs";
+import { browserTests, openPage, DEMO } from "../lib/harness.mjs";
 import { cli, docFile, downloadBytes, downloadText, enter, plotHashes, pngSize, savedModel } from "../lib/page.mjs";
 import { readFileSync } from "node:fs";
 
-let env;
-before(async () => (env = await startBrowser()));
-after(async () => env && (await env.close()));
+const env = browserTests();
 
 const PLOTS = ["cd", "ord", "abs", "index"];
 

@@ -3,15 +3,13 @@
 // left to the browser. The model is autosaved in localStorage and comes back
 // on reload; an unreadable autosave is reported, set aside and ignored; a
 // full storage is reported once and the page goes on.
-import { test, before, after } from "node:test";
+import { test } from "node:test";
 import assert from "node:assert/strict";
 import { readFileSync } from "node:fs";
-import { startBrowser, openPage, DEMO } from "../lib/harness.mjs";
+import { browserTests, openPage, DEMO } from "../lib/harness.mjs";
 import { enter, plotHashes, savedModel } from "../lib/page.mjs";
 
-let env;
-before(async () => (env = await startBrowser()));
-after(async () => env && (await env.close()));
+const env = browserTests();
 
 const demo = JSON.parse(readFileSync(DEMO, "utf8"));
 const docOf = (page) => page.evaluate(() => window.chiroptic.document());

@@ -1,14 +1,12 @@
 // Everything on the band list can be done from the keyboard alone: reach a
 // field with Tab, step it with the arrow keys (Shift coarse, Alt fine), add,
 // move and delete bands with Enter and Space, and read the plots with ←/→.
-import { test, before, after } from "node:test";
+import { test } from "node:test";
 import assert from "node:assert/strict";
-import { startBrowser, openPage } from "../lib/harness.mjs";
+import { browserTests, openPage } from "../lib/harness.mjs";
 import { plotHashes, savedModel } from "../lib/page.mjs";
 
-let env;
-before(async () => (env = await startBrowser()));
-after(async () => env && (await env.close()));
+const env = browserTests();
 
 async function tabTo(page, id, limit = 80) {
   for (let i = 0; i < limit; i++) {

@@ -1,13 +1,11 @@
 // The page starts offline on the invented demo, draws all four plots, logs no
 // console error and asks nothing of any host but 127.0.0.1; it stays usable at
 // 1280x800 and 800 px wide, in light and dark.
-import { test, before, after } from "node:test";
+import { test } from "node:test";
 import assert from "node:assert/strict";
-import { startBrowser, openPage, canvasDigest } from "../lib/harness.mjs";
+import { browserTests, openPage, canvasDigest } from "../lib/harness.mjs";
 
-let env;
-before(async () => (env = await startBrowser()));
-after(async () => env && (await env.close()));
+const env = browserTests();
 
 const PLOTS = ["cd", "ord", "abs", "index"];
 
@@ -75,7 +73,8 @@ test("the sign conventions are one hover away", async () => {
     // Convention of physics.md: positive rotation is dextrorotatory.
     assert.match(await tip.textContent(), /dextrorotatory/);
     await page.hover('.plot[data-plot="cd"] .hint');
-    assert.match(await page.textContent("#hint-cd"), /ε_L − ε_R/);
+    // Left minus right, with the subscripts typeset (no "_L").
+    assert.match(await page.textContent("#hint-cd"), /εₗ − εᵣ/);
   } finally {
     await context.close();
   }

@@ -3,14 +3,12 @@
 // down, the other bands stay, all plots follow, and the drag is one edit for
 // undo. The expected strength follows from CD being proportional to R
 // (physics.md: Δε of a band ∝ R_j); the centre from the plot's axis.
-import { test, before, after } from "node:test";
+import { test } from "node:test";
 import assert from "node:assert/strict";
-import { startBrowser, openPage } from "../lib/harness.mjs";
+import { browserTests, openPage } from "../lib/harness.mjs";
 import { plotHashes } from "../lib/page.mjs";
 
-let env;
-before(async () => (env = await startBrowser()));
-after(async () => env && (await env.close()));
+const env = browserTests();
 
 test("dragging a band's CD peak moves its centre and strength", async () => {
   const { page, context, log } = await openPage(env);

@@ -1,15 +1,13 @@
 // Changing a band's rotatory strength changes the CD, ORD and index plots and
 // the lamp-line table, and leaves the absorption alone; the page's table
 // matches the native command line (`chiroptic lines`) on the same document.
-import { test, before, after } from "node:test";
+import { test } from "node:test";
 import assert from "node:assert/strict";
 import { readFileSync } from "node:fs";
-import { startBrowser, openPage, DEMO } from "../lib/harness.mjs";
+import { browserTests, openPage, DEMO } from "../lib/harness.mjs";
 import { linesTable, cliLines, docFile, assertLinesMatch, plotHashes, enter, savedModel } from "../lib/page.mjs";
 
-let env;
-before(async () => (env = await startBrowser()));
-after(async () => env && (await env.close()));
+const env = browserTests();
 
 test("the demo's lamp lines equal the CLI's", async () => {
   const { page, context, log } = await openPage(env);

@@ -4,16 +4,14 @@
 // page opened from the link draws pixel-identical plots. The link format is
 // crate/src/link.rs; the Python-made links of fixtures/bad-links/corpus.json
 // ("good") check it from outside the crate.
-import { test, before, after } from "node:test";
+import { test } from "node:test";
 import assert from "node:assert/strict";
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
-import { startBrowser, openPage, ROOT } from "../lib/harness.mjs";
+import { browserTests, openPage, ROOT } from "../lib/harness.mjs";
 import { cli, docFile, enter, pageLink, plotHashes, savedModel } from "../lib/page.mjs";
 
-let env;
-before(async () => (env = await startBrowser()));
-after(async () => env && (await env.close()));
+const env = browserTests();
 
 /** The part of a link after the origin: what openPage takes as its path. */
 const pathOf = (url) => url.slice(env.origin.length);

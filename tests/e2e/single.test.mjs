@@ -4,17 +4,15 @@
 // Every request the browser makes is recorded; anything but the file is
 // refused, and a Content-Security-Policy violation would show as a console
 // error.
-import { test, before, after } from "node:test";
+import { test } from "node:test";
 import assert from "node:assert/strict";
 import { existsSync } from "node:fs";
 import { join } from "node:path";
 import { pathToFileURL } from "node:url";
-import { startBrowser, canvasDigest, DIST } from "../lib/harness.mjs";
+import { browserTests, canvasDigest, DIST } from "../lib/harness.mjs";
 import { pageLink } from "../lib/page.mjs";
 
-let env;
-before(async () => (env = await startBrowser()));
-after(async () => env && (await env.close()));
+const env = browserTests();
 
 const FILE = join(DIST, "chiroptic.html");
 const fileUrl = pathToFileURL(FILE).href;
@@ -33,6 +31,7 @@ async function openFile(suffix = "", viewport = { width: 1280, height: 800 }) {
     log.refused.push(url.slice(0, 80));
     return route.abort();
   });
+  env.logs.push({ errors: log.errors, foreign: log.refused });
   await page.goto(fileUrl + suffix);
   await page.waitForSelector("html[data-ready=true]", { state: "attached", timeout: 20000 });
   return { page, context, log };

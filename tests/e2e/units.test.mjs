@@ -5,14 +5,12 @@
 // (CODATA 2018) values of h, c and e, the specific rotation of the
 // pharmacopoeias and the ellipticity factor 32.98 of the CD literature
 // (physics.md; from memory).
-import { test, before, after } from "node:test";
+import { test } from "node:test";
 import assert from "node:assert/strict";
-import { startBrowser, openPage } from "../lib/harness.mjs";
+import { browserTests, openPage } from "../lib/harness.mjs";
 import { plotHashes, enter, savedModel, assertClose } from "../lib/page.mjs";
 
-let env;
-before(async () => (env = await startBrowser()));
-after(async () => env && (await env.close()));
+const env = browserTests();
 
 // CODATA 2018 exact values (SI).
 const H = 6.62607015e-34;
@@ -145,17 +143,18 @@ test("CD and ORD unit menus rescale the plotted values as the definitions say", 
 test("the spectral axis unit converts the window in place", async () => {
   const { page, context } = await openPage(env);
   try {
-    assert.equal(await page.inputValue("#range-from"), "180");
+    // The demo's default window: 180–650 nm kept inside the water series' 182–1129 nm.
+    assert.equal(await page.inputValue("#range-from"), "182");
     assert.equal(await page.inputValue("#range-to"), "650");
     const before = await plotHashes(page);
     await page.selectOption("#axis-unit", "ev");
     // The left end is the smaller energy: 650 nm.
     assertClose(await fullValue(page, "#range-from"), EV_NM / 650, 1e-9, "650 nm in eV");
-    assertClose(await fullValue(page, "#range-to"), EV_NM / 180, 1e-9, "180 nm in eV");
+    assertClose(await fullValue(page, "#range-to"), EV_NM / 182, 1e-9, "182 nm in eV");
     assert.notEqual((await plotHashes(page)).cd, before.cd, "the plots are redrawn on an eV axis");
     await page.selectOption("#axis-unit", "cm-1");
     assert.equal(await page.inputValue("#range-from"), "15385");
-    assert.equal(await page.inputValue("#range-to"), "55556");
+    assert.equal(await page.inputValue("#range-to"), "54945");
   } finally {
     await context.close();
   }

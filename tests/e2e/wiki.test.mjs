@@ -1,14 +1,12 @@
 // The wiki view (`#<link>&show=<plot>`) shows one plot filling its frame,
 // with no controls, redrawn when the frame changes size; the Share panel
 // copies an iframe snippet that opens exactly that view.
-import { test, before, after } from "node:test";
+import { test } from "node:test";
 import assert from "node:assert/strict";
-import { startBrowser, openPage, canvasDigest } from "../lib/harness.mjs";
+import { browserTests, openPage, canvasDigest } from "../lib/harness.mjs";
 import { pageLink } from "../lib/page.mjs";
 
-let env;
-before(async () => (env = await startBrowser()));
-after(async () => env && (await env.close()));
+const env = browserTests();
 
 /** Visible things a person could operate, and the visible canvases. */
 async function visibleParts(page) {

@@ -1,6 +1,8 @@
 // Shared set-up of the browser tests, the timing script and the screenshot
 // script: serve dist/ on 127.0.0.1, start Debian's headless Chromium with the
 // flags this workplace requires, and watch every console message and request.
+import { before, after, afterEach } from "node:test";
+import assert from "node:assert/strict";
 import { chromium } from "playwright-core";
 import { join, resolve, dirname } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -35,6 +37,8 @@ export async function startBrowser() {
   return {
     origin,
     browser,
+    /** Logs of the pages opened since the last check (see browserTests). */
+    logs: [],
     async close() {
       await browser.close();
       await new Promise((ok) => server.close(ok));
@@ -55,6 +59,7 @@ export async function openPage(env, { width = 1280, height = 800, colorScheme = 
     if (m.type() === "error") log.errors.push(m.text());
   });
   page.on("pageerror", (e) => log.errors.push(`page error: ${e.message}`));
+  env.logs?.push(log);
   if (!given) await routeLocal(context, log);
   await page.goto(env.origin + path);
   try {
@@ -64,6 +69,26 @@ export async function openPage(env, { width = 1280, height = 800, colorScheme = 
     throw new Error(`the page did not start: ${fatal || "no message"}; console: ${log.errors.join(" | ")}`);
   }
   return { page, context, log };
+}
+
+/**
+ * The set-up of a browser test file: one browser and server for the file,
+ * and after every test a check that no page it opened logged a console or
+ * page error or asked for anything off 127.0.0.1. Returns the environment
+ * (filled in before the first test).
+ */
+export function browserTests() {
+  const env = {};
+  before(async () => Object.assign(env, await startBrowser()));
+  after(async () => env.close && (await env.close()));
+  afterEach(() => {
+    const logs = env.logs.splice(0);
+    for (const log of logs) {
+      assert.deepEqual(log.errors, [], "no console or page error");
+      assert.deepEqual(log.foreign, [], "no request off 127.0.0.1");
+    }
+  });
+  return env;
 }
 
 /** Lets requests to 127.0.0.1 (and blob:/data:) through; records and refuses the rest. */

@@ -81,7 +81,8 @@ export function docFile(doc) {
 
 /** Parses the CLI's and the page's CSV: header names and rows of numbers. */
 export function parseCsv(text) {
-  const lines = text.trim().split("\n");
+  // A header block of "#" lines may come first (the page's export).
+  const lines = text.trim().split("\n").filter((l) => !l.startsWith("#"));
   const header = lines[0].split(",");
   const rows = lines.slice(1).map((l) => l.split(","));
   return { header, rows };
@@ -134,6 +135,17 @@ export async function plotHashes(page) {
     }
     return out;
   });
+}
+
+/**
+ * Types into a text box as a person does: a click, Ctrl+A to select what is
+ * there, the text key by key, then Enter (unless `enter` is false).
+ */
+export async function typeInto(page, selector, text, { enter = true } = {}) {
+  await page.click(selector);
+  await page.keyboard.press("Control+A");
+  await page.keyboard.type(text);
+  if (enter) await page.keyboard.press("Enter");
 }
 
 /** Fills a text box the way typing does (one input event) and waits for the update. */

@@ -3,14 +3,13 @@
 //! `link` / `open`: share links made and read by the codec the page uses.
 
 use super::{load, Failure};
-use crate::document::{ViewDoc, DEFAULT_VIEW_POINTS};
 use crate::error::{Error, ErrorKind};
-use crate::figures::{self, PlotKind, PlotRequest};
+use crate::figures::{self, PlotRequest};
 use crate::link;
-use crate::spectra::{evaluate, Grid};
+use crate::spectra::evaluate;
 use crate::units::{AxisUnit, CdUnit, OrdUnit};
+use crate::view::{axis_key, PlotKind, View, AXIS_UNITS};
 use std::path::Path;
-
 
 pub struct RenderOptions {
     pub plot: String,
@@ -36,59 +35,18 @@ fn keys<T: Copy>(all: &[T], key: fn(T) -> &'static str) -> String {
 pub fn render(path: &Path, o: &RenderOptions, output: &Path, out: &mut Vec<u8>) -> Result<(), Failure> {
     let origin = path.display().to_string();
     let kind = PlotKind::parse(&o.plot).ok_or_else(|| {
-        bad("--plot", ErrorKind::UnknownName, format!("unknown plot \"{}\" (use cd, ord, abs or index)", o.plot))
+        bad("--plot", ErrorKind::UnknownName, format!("unknown plot \"{}\" (use {})", o.plot, keys(&PlotKind::ALL, PlotKind::key)))
     })?;
     let (doc, model) = load(path)?;
-    let view = doc.view.clone().unwrap_or_default();
-
-    let axis_key = o.axis.clone().or(view.axis_unit.clone()).unwrap_or_else(|| "nm".into());
-    let axis = AxisUnit::parse(&axis_key).ok_or_else(|| {
-        bad("--axis", ErrorKind::UnknownName, format!("unknown axis unit \"{axis_key}\" (use nm, cm-1 or ev)"))
-    })?;
-
-    let mut req_units = (CdUnit::DeltaEpsilon, OrdUnit::Degrees);
-    if let Some(k) = view.cd_unit.as_deref().and_then(CdUnit::parse) {
-        req_units.0 = k;
-    }
-    if let Some(k) = view.ord_unit.as_deref().and_then(OrdUnit::parse) {
-        req_units.1 = k;
-    }
-    if let Some(u) = &o.unit {
-        match kind {
-            PlotKind::Cd => {
-                req_units.0 = CdUnit::parse(u).ok_or_else(|| {
-                    let known = keys(&CdUnit::ALL, CdUnit::key);
-                    bad("--unit", ErrorKind::UnknownName, format!("unknown CD unit \"{u}\" (use one of {known})"))
-                })?
-            }
-            PlotKind::Ord => {
-                req_units.1 = OrdUnit::parse(u).ok_or_else(|| {
-                    let known = keys(&OrdUnit::ALL, OrdUnit::key);
-                    bad("--unit", ErrorKind::UnknownName, format!("unknown ORD unit \"{u}\" (use one of {known})"))
-                })?
-            }
-            PlotKind::Absorption | PlotKind::Index => {
-                return Err(bad(
-                    "--unit",
-                    ErrorKind::UnknownName,
-                    format!("the {} plot has one unit; --unit applies to cd and ord", kind.key()),
-                ))
-            }
-        }
-    }
-
-    let x_range = match (o.from, o.to) {
-        (Some(a), Some(b)) => (a, b),
-        (None, None) => default_range(&view, &model, axis),
-        _ => return Err(bad("--from", ErrorKind::MissingField, "give both --from and --to, or neither".into())),
-    };
-    let points = view.points.unwrap_or(DEFAULT_VIEW_POINTS) as usize;
-    let grid = Grid::linspace(x_range.0, x_range.1, points, axis).map_err(|e| Failure::input("--from/--to", e))?;
+    // The document's view, checked as a link checks it, with the page's defaults.
+    let mut view = View::resolve(doc.view.as_ref(), &model).map_err(|e| Failure::input(&origin, e))?;
+    apply_overrides(&mut view, kind, o)?;
+    let grid = view.grid().map_err(|e| Failure::input("--from/--to", e))?;
     let spectra = evaluate(&model, &grid.wavenumber_cm1).map_err(|e| Failure::input(&origin, e))?;
 
-    let mut req = PlotRequest::new(kind, &spectra, axis, x_range);
-    req.cd_unit = req_units.0;
-    req.ord_unit = req_units.1;
+    let mut req = PlotRequest::new(kind, &spectra, view.axis, view.x_range);
+    req.cd_unit = view.cd_unit;
+    req.ord_unit = view.ord_unit;
     req.dark = o.dark;
     req.show_contributions = o.contributions;
     req.legend = o.legend;
@@ -107,14 +65,49 @@ pub fn render(path: &Path, o: &RenderOptions, output: &Path, out: &mut Vec<u8>) 
     })
 }
 
-/// The view's range in the chosen axis (ascending), else one showing every band.
-fn default_range(view: &ViewDoc, model: &crate::Model, axis: AxisUnit) -> (f64, f64) {
-    let (lo_nm, hi_nm) = match view.range_nm {
-        Some([a, b]) if a.is_finite() && b.is_finite() && a > 0.0 && b > 0.0 && a != b => (a.min(b), a.max(b)),
-        _ => Grid::default_range_nm(model),
-    };
-    let ends = [lo_nm, hi_nm].map(|nm| axis.from_wavenumber(AxisUnit::Nanometre.to_wavenumber(nm)));
-    (ends[0].min(ends[1]), ends[0].max(ends[1]))
+/// The command line's choices over the document's view: --axis, --unit, --from/--to.
+fn apply_overrides(view: &mut View, kind: PlotKind, o: &RenderOptions) -> Result<(), Failure> {
+    if let Some(key) = &o.axis {
+        let axis = AxisUnit::parse(key).ok_or_else(|| {
+            bad("--axis", ErrorKind::UnknownName, format!("unknown axis unit \"{key}\" (use {})", keys(&AXIS_UNITS, axis_key)))
+        })?;
+        *view = View { axis, ..view.clone() }.with_x_range(axis_range_of(view, axis));
+    }
+    if let Some(u) = &o.unit {
+        match kind {
+            PlotKind::Cd => {
+                view.cd_unit = CdUnit::parse(u).ok_or_else(|| {
+                    let known = keys(&CdUnit::ALL, CdUnit::key);
+                    bad("--unit", ErrorKind::UnknownName, format!("unknown CD unit \"{u}\" (use one of {known})"))
+                })?
+            }
+            PlotKind::Ord => {
+                view.ord_unit = OrdUnit::parse(u).ok_or_else(|| {
+                    let known = keys(&OrdUnit::ALL, OrdUnit::key);
+                    bad("--unit", ErrorKind::UnknownName, format!("unknown ORD unit \"{u}\" (use one of {known})"))
+                })?
+            }
+            PlotKind::Absorption | PlotKind::Index => {
+                return Err(bad(
+                    "--unit",
+                    ErrorKind::UnknownName,
+                    format!("the {} plot has one unit; --unit applies to cd and ord", kind.key()),
+                ))
+            }
+        }
+    }
+    match (o.from, o.to) {
+        (Some(a), Some(b)) => *view = view.with_x_range((a, b)),
+        (None, None) => {}
+        _ => return Err(bad("--from", ErrorKind::MissingField, "give both --from and --to, or neither".into())),
+    }
+    Ok(())
+}
+
+/// The view's window in nm, as values of another axis unit.
+fn axis_range_of(view: &View, axis: AxisUnit) -> (f64, f64) {
+    let at = |nm: f64| axis.from_wavenumber(AxisUnit::Nanometre.to_wavenumber(nm));
+    (at(view.range_nm.0), at(view.range_nm.1))
 }
 
 pub fn link(path: &Path, base: &str, out: &mut Vec<u8>) -> Result<(), Failure> {

@@ -1,0 +1,110 @@
+// The bridge to the wasm core: the only module that calls it. Every call is
+// guarded (a trap inside the module means it can no longer be used, and the
+// page says so once), conversions come back as numbers or throw an Error
+// whose message the page shows, and everything else comes back as the
+// core's reply `{ ok: true, ... }` or `{ ok: false, error: { kind, field, message } }`.
+
+import init, * as wasm from "../pkg/chiroptic.js";
+import { $ } from "./dom.js";
+
+let dead = false;
+let workbench = null;
+/** Names, keys, caps and defaults, as the core knows them (see `catalog` in wasm.rs). */
+export let catalog = null;
+
+/** The wasm module's bytes when the single offline file carries them inline. */
+function inlinedWasm() {
+  const holder = document.getElementById("chiroptic-wasm");
+  if (!holder) return undefined;
+  const bin = atob(holder.textContent.trim());
+  const bytes = new Uint8Array(bin.length);
+  for (let i = 0; i < bin.length; i++) bytes[i] = bin.charCodeAt(i);
+  return { module_or_path: bytes };
+}
+
+/** Loads the module and takes the four plot canvases. */
+export async function start(canvases) {
+  await init(inlinedWasm());
+  const c = wasm.catalog();
+  if (!c.ok) throw new Error(`the core's catalog does not load: ${c.error.message}`);
+  catalog = c;
+  workbench = new wasm.Workbench(...canvases);
+}
+
+/** Runs a call into the module; a trap there stops every later call. */
+function call(fn) {
+  if (dead) return undefined;
+  try {
+    return fn();
+  } catch (e) {
+    if (!(e instanceof WebAssembly.RuntimeError)) throw e;
+    dead = true;
+    const box = $("fatal");
+    if (box.hidden) {
+      box.textContent = `The calculation core stopped on an internal error (${e.message}). Save your model, then reload the page.`;
+      box.hidden = false;
+    }
+    return undefined;
+  }
+}
+
+const STOPPED = { ok: false, error: { kind: "stopped", field: "", message: "the calculation core stopped" } };
+
+/** A call answering in the core's reply shape; a stopped core answers "stopped". */
+const reply = (fn) => call(fn) ?? STOPPED;
+
+/** The named field of a successful reply, or a thrown Error with the core's words. */
+function value(fn, name = "value") {
+  const r = reply(fn);
+  if (!r.ok) throw Object.assign(new Error(r.error.message), { kind: r.error.kind, field: r.error.field });
+  return r[name];
+}
+
+/** The named field of a successful reply, or `fallback`. */
+function orElse(fn, name, fallback) {
+  const r = reply(fn);
+  return r.ok ? r[name] : fallback;
+}
+
+// ---------------------------------------------------------------- documents
+
+export const demoDocument = () => reply(() => wasm.demo_document());
+export const parseDocument = (text) => reply(() => wasm.parse_document(text));
+export const readValidDocument = (text) => reply(() => wasm.read_valid_document(text));
+export const documentJson = (doc) => value(() => wasm.document_json(doc), "text");
+export const linkEncode = (doc) => reply(() => wasm.link_encode(doc));
+export const linkDecode = (text) => reply(() => wasm.link_decode(text));
+/** A window framing the document's bands: `{ ok, range_nm }`. */
+export const frameBands = (doc) => reply(() => wasm.frame_bands(doc));
+
+// ---------------------------------------------------------------- units
+
+export const convertPosition = (v, from, to) => value(() => wasm.convert_position(v, from, to));
+export const convertWidth = (v, from, to, centerNm) => value(() => wasm.convert_width(v, from, to, centerNm));
+export const convertConcentration = (v, from, to, molarMass) => value(() => wasm.convert_concentration(v, from, to, molarMass));
+export const convertPath = (v, from, to) => value(() => wasm.convert_path(v, from, to));
+
+// ---------------------------------------------------------------- drawing
+
+export const bandColour = (i) => orElse(() => wasm.band_colour(i), "colour", "currentColor");
+/** `[background, text, muted, grid]` for the page's CSS. */
+export function themeColours(dark) {
+  const r = reply(() => wasm.theme_colours(dark));
+  return r.ok ? [r.background, r.text, r.muted, r.grid] : [];
+}
+
+/** Validates, evaluates and redraws: the reply names the field at fault. */
+export const update = (doc, options) => reply(() => workbench.update(doc, options));
+/** Redraws the last good model with new options. */
+export const redraw = (options) => reply(() => workbench.redraw(options));
+export const readout = (x) => {
+  const r = reply(() => workbench.readout(x));
+  return r.ok ? r : null;
+};
+export const bandPeaks = () => orElse(() => workbench.band_peaks(), "peaks", []);
+/** The spectra as CSV on a round step (null: the plots' grid): `{ ok, csv }`. */
+export const csv = (step) => reply(() => workbench.csv(step ?? undefined));
+/** figure: { width, height, legend, font_px }. */
+export const svg = (key, figure) => value(() => workbench.svg(key, figure), "svg");
+export const drawPlot = (key, canvas, scale, figure) => value(() => workbench.draw_plot(key, canvas, scale, figure), "frame");
+export const drawnText = (key) => orElse(() => workbench.drawn_text(key), "texts", []);

@@ -1,0 +1,88 @@
+// The update loop. `refresh()` hands the document to the core and shows what
+// comes back; `edit()` is what every change to the document calls: refresh,
+// then one explicit history step and a persisted address/autosave.
+// `loadDocument()` puts a whole new document on the page.
+
+import { $ } from "./dom.js";
+import { state } from "./state.js";
+import * as core from "./core.js";
+import { showAll, dropFieldsIn, clearLocalErrors } from "./fields.js";
+import { renderErrors, sayDone, editMade } from "./messages.js";
+import { record } from "./history.js";
+import { persistSoon } from "./persist.js";
+import { showResult, cssFrame, sizeCanvases, layoutPlots, drawCrosshair } from "./plots.js";
+import { renderBands } from "./bands.js";
+import { renderSolvent } from "./sample.js";
+
+/** Hands the document to the core; redraws on success, marks the field at fault otherwise. */
+export function refresh() {
+  if (!core.catalog) return false;
+  const t0 = performance.now();
+  const result = core.update(state.doc, state.options);
+  const ms = performance.now() - t0;
+  if (result.error?.kind === "stopped") return false;
+  state.valid = result.ok;
+  if (result.ok) {
+    state.coreError = null;
+    result.frames = result.frames.map(cssFrame);
+    state.drawn = result;
+    state.goodDoc = structuredClone(state.doc);
+    showResult(result);
+    renderErrors();
+    sayDone(`Redrawn in ${ms.toFixed(1)} ms · ${result.points} points`);
+  } else {
+    state.coreError = result.error;
+    renderErrors();
+  }
+  showAll();
+  document.dispatchEvent(new CustomEvent("chiroptic:updated", { detail: { ok: result.ok, ms } }));
+  return result.ok;
+}
+
+/** Redraws the last good model with new page options (theme, highlight, size). */
+export function redraw() {
+  if (!state.drawn) return refresh();
+  const result = core.redraw(state.options);
+  if (result.ok) {
+    state.drawn = { ...state.drawn, frames: result.frames.map(cssFrame) };
+    drawCrosshair();
+  }
+  return result.ok;
+}
+
+/**
+ * Records a change already made to `state.doc` without redrawing (the
+ * title): one history step (merged with the last when `merge` names the
+ * same control, typed in within a moment), then the address and autosave.
+ */
+export function noted({ merge = null } = {}) {
+  if (state.wiki) return;
+  editMade();
+  if (state.valid) state.goodDoc = structuredClone(state.doc);
+  record(merge);
+  persistSoon();
+}
+
+/** Every edit of the document calls this once the document holds the change. */
+export function edit({ merge = null } = {}) {
+  editMade();
+  refresh();
+  noted({ merge });
+}
+
+/** Puts a whole new document on the page; `record` makes it one undo step. */
+export function loadDocument(doc, { record: asStep = true } = {}) {
+  state.doc = doc;
+  state.cursorX = null;
+  state.coreError = null;
+  dropFieldsIn("#band-rows, #solvent-detail");
+  clearLocalErrors();
+  $("doc-title").value = doc.title ?? "";
+  layoutPlots(doc.view?.plots ?? core.catalog.plots.map((p) => p.key));
+  renderBands();
+  renderSolvent();
+  sizeCanvases();
+  refresh();
+  if (asStep) noted();
+  else persistSoon();
+}

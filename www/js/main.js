@@ -1,0 +1,65 @@
+// The entry module: starts the core, then wires the page's parts together.
+// Each part is a module with one concern (see DEVELOPERS.md, "The page").
+
+import { $ } from "./dom.js";
+import { state } from "./state.js";
+import * as core from "./core.js";
+import { sayDone, showNotice } from "./messages.js";
+import { loadDocument } from "./edit.js";
+import { bindHistory, resetHistory } from "./history.js";
+import { readFragment, firstDocument, bindPersistence } from "./persist.js";
+import { bindPlots, sizeCanvases } from "./plots.js";
+import { bandHandles } from "./peakdrag.js";
+import { bindWindow } from "./window.js";
+import { bindSample } from "./sample.js";
+import { bindBandTable } from "./bands.js";
+import { bindFiles } from "./files.js";
+import { bindExport } from "./export.js";
+import { bindShare } from "./share.js";
+import { startWiki } from "./wiki.js";
+import { bindTheme, bindMenus, renderConventions } from "./chrome.js";
+
+async function main() {
+  await core.start(["cd", "ord", "abs", "index"].map((k) => $(`plot-${k}`)));
+  const demo = core.demoDocument();
+  if (!demo.ok) throw new Error(`the built-in demo does not load: ${demo.error.message}`);
+  // Read-only, for tests and scripts: the document (a copy) and the text each canvas shows.
+  window.chiroptic = Object.freeze({
+    document: () => JSON.parse(JSON.stringify(state.doc)),
+    drawnText: (key) => core.drawnText(key),
+    bandHandles: () => bandHandles().map(({ i, px, py }) => ({ i, px, py })),
+  });
+  bindTheme();
+  const fragment = readFragment();
+  if (fragment.options.show !== undefined) {
+    startWiki(fragment);
+    document.documentElement.dataset.ready = "true";
+    return;
+  }
+  bindWindow();
+  bindSample();
+  bindBandTable();
+  bindPlots();
+  bindFiles();
+  bindHistory();
+  bindExport();
+  bindShare();
+  bindMenus();
+  renderConventions();
+  sizeCanvases();
+
+  const first = firstDocument(fragment, demo.doc);
+  loadDocument(first.doc, { record: false });
+  resetHistory();
+  if (first.notes.length) showNotice(first.notes.join(" "), { passing: true });
+  if (first.from === "autosave") sayDone("Restored the model autosaved in this browser");
+  bindPersistence();
+  document.documentElement.dataset.ready = "true";
+}
+
+main().catch((e) => {
+  const box = $("fatal");
+  box.textContent = `The workbench could not start: ${e.message}`;
+  box.hidden = false;
+  console.error(e);
+});

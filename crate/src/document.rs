@@ -9,9 +9,12 @@ use serde::{Deserialize, Serialize};
 
 /// The major version this build writes and reads.
 pub const FORMAT_VERSION: u32 = 1;
-/// Largest document text accepted (bytes): far above any real model, far
-/// below what would hurt a browser tab.
-pub const MAX_DOCUMENT_BYTES: usize = 2 * 1024 * 1024;
+/// Largest document text accepted (bytes): room for measured data sets (a
+/// 100,000-point set is about 2 MB), far below what would hurt a browser tab.
+pub const MAX_DOCUMENT_BYTES: usize = 16 * 1024 * 1024;
+/// Most measured data sets and lamp-line readings a document may hold.
+pub const MAX_DATA_SETS: usize = 50;
+pub const MAX_READINGS: usize = 200;
 /// Most bands a document may hold.
 pub const MAX_BANDS: usize = 500;
 
@@ -27,6 +30,107 @@ pub struct Document {
     pub bands: Vec<BandDoc>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub view: Option<ViewDoc>,
+    /// Measured spectra, each with its conditions and processing.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub data: Vec<DataSetDoc>,
+    /// Rotations read on a polarimeter at lamp lines.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub readings: Vec<ReadingDoc>,
+}
+
+/// A measured spectrum as imported, with the conditions it was measured at
+/// and the processing applied to it (applied on reading, so that a file or
+/// link reproduces it; the values stay as they came).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct DataSetDoc {
+    pub name: String,
+    /// `cd`, `ord` or `absorption`.
+    pub quantity: String,
+    /// A unit key of that quantity: `units::CdUnit::key` (not `g`),
+    /// `units::OrdUnit::key`, or `absorbance` / `epsilon`.
+    pub unit: String,
+    /// `nm`, `cm-1` or `ev`: the unit of `x`.
+    pub axis_unit: String,
+    /// Where a condition is absent, the document's sample gives it.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub conditions: Option<ConditionsDoc>,
+    pub x: AxisValuesDoc,
+    pub y: Vec<f64>,
+    /// Standard deviation of each y, in y's unit.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub sd: Option<Vec<f64>>,
+    /// Detector high voltage at each point, V.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub ht_v: Option<Vec<f64>>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub source: Option<SourceDoc>,
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub processing: Vec<StepDoc>,
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    pub hidden: bool,
+}
+
+/// The axis as a list, or, when evenly spaced, as first value, step and
+/// count (shorter in links).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(untagged)]
+pub enum AxisValuesDoc {
+    Even { first: f64, step: f64, count: u32 },
+    List(Vec<f64>),
+}
+
+#[derive(Debug, Clone, PartialEq, Default, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ConditionsDoc {
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub concentration_mol_per_l: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub path_length_cm: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub temperature_c: Option<f64>,
+}
+
+/// Where a data set came from: file name, format, the file's metadata lines.
+#[derive(Debug, Clone, PartialEq, Default, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct SourceDoc {
+    #[serde(default, skip_serializing_if = "String::is_empty")]
+    pub file: String,
+    #[serde(default, skip_serializing_if = "String::is_empty")]
+    pub format: String,
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub metadata: Vec<String>,
+}
+
+/// One processing step, in the order applied. Ranges are in the data
+/// set's own axis unit.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case", deny_unknown_fields)]
+pub enum StepDoc {
+    /// Subtract another data set (a solvent or cell baseline), interpolated.
+    SubtractBlank { blank: String },
+    /// Subtract the mean over a range where the signal must vanish.
+    ZeroAt { from: f64, to: f64 },
+    /// Savitzky-Golay smoothing.
+    Smooth { window: u32, order: u32 },
+    /// Drop points whose detector voltage exceeds a limit.
+    DropAboveHt { limit_v: f64 },
+    /// Keep only a range.
+    Trim { from: f64, to: f64 },
+}
+
+/// A rotation read at a lamp line, with its conditions.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ReadingDoc {
+    /// Air wavelength of the line, nm (as polarimeters quote it).
+    pub wavelength_nm: f64,
+    pub rotation_deg: f64,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub sd_deg: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub conditions: Option<ConditionsDoc>,
 }
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -148,6 +252,12 @@ impl Document {
             let field = if field == "." { String::new() } else { field };
             Error::new(kind, field, inner)
         })?;
+        if doc.data.len() > MAX_DATA_SETS {
+            return Err(Error::new(ErrorKind::TooLarge, "data", format!("{} data sets; the limit is {MAX_DATA_SETS}", doc.data.len())));
+        }
+        if doc.readings.len() > MAX_READINGS {
+            return Err(Error::new(ErrorKind::TooLarge, "readings", format!("{} readings; the limit is {MAX_READINGS}", doc.readings.len())));
+        }
         if doc.bands.len() > MAX_BANDS {
             return Err(Error::new(
                 ErrorKind::TooLarge,

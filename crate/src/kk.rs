@@ -46,3 +46,183 @@ pub fn delta_k_from_delta_n(nu: &[f64], delta_n: &[f64], at: &[f64]) -> Vec<f64>
         .map(|&t| -(principal_value(nu, delta_n, t) + principal_value(nu, delta_n, -t)) / PI)
         .collect()
 }
+
+// ---------------------------------------------------------------------------
+// Measured spectra: Maclaurin's formula on an even wavenumber grid.
+
+/// A spectrum on evenly spaced wavenumbers (cm^-1), ascending.
+#[derive(Debug, Clone, PartialEq)]
+pub struct EvenGrid {
+    pub first: f64,
+    pub step: f64,
+    pub values: Vec<f64>,
+}
+
+impl EvenGrid {
+    pub fn last(&self) -> f64 {
+        self.first + self.step * (self.values.len().saturating_sub(1)) as f64
+    }
+
+    pub fn node(&self, j: usize) -> f64 {
+        self.first + self.step * j as f64
+    }
+
+    /// Samples (nu, y), in any order, at `count` even points across their
+    /// range by linear interpolation; `None` with fewer than 2 points.
+    pub fn resample(nu: &[f64], y: &[f64], count: usize) -> Option<EvenGrid> {
+        if nu.len() < 2 || nu.len() != y.len() || count < 2 {
+            return None;
+        }
+        let mut pairs: Vec<(f64, f64)> = nu.iter().copied().zip(y.iter().copied()).collect();
+        pairs.sort_by(|a, b| a.0.total_cmp(&b.0));
+        let xs: Vec<f64> = pairs.iter().map(|p| p.0).collect();
+        let ys: Vec<f64> = pairs.iter().map(|p| p.1).collect();
+        let (first, last) = (xs[0], xs[xs.len() - 1]);
+        let step = (last - first) / (count - 1) as f64;
+        let values = (0..count)
+            .map(|j| crate::processing::interpolate(&xs, &ys, (first + step * j as f64).min(last)).unwrap_or(0.0))
+            .collect();
+        Some(EvenGrid { first, step, values })
+    }
+}
+
+/// Which transform: Dk -> Dn (the chiral pair's kernel 2nu/(nu'^2 - nu^2)) or
+/// Dn -> Dk (kernel -2nu'/(nu'^2 - nu^2)); see the module header.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Direction {
+    DeltaNFromDeltaK,
+    DeltaKFromDeltaN,
+}
+
+/// The transform of a spectrum sampled on an even grid, at any wavenumbers.
+///
+/// At the grid's nodes, Maclaurin's formula (Ohta and Ishida, Appl.
+/// Spectrosc. 42, 952 (1988)): the principal value is summed over every
+/// other node, those an odd number of steps away, with weight 2h, which
+/// steps over the pole symmetrically; between nodes the node values are
+/// interpolated linearly. Outside the grid the integral has no pole and the
+/// trapezoidal rule is used. The function is zero outside the grid (the
+/// caller adds what lies beyond, e.g. model bands).
+pub fn transform_even(grid: &EvenGrid, direction: Direction, at: &[f64]) -> Vec<f64> {
+    let n = grid.values.len();
+    let mut nodes: Vec<Option<f64>> = vec![None; n];
+    let kernel = |nu_j: f64, t: f64| -> f64 {
+        let d = nu_j * nu_j - t * t;
+        match direction {
+            Direction::DeltaNFromDeltaK => 2.0 * t / (PI * d),
+            Direction::DeltaKFromDeltaN => -2.0 * nu_j / (PI * d),
+        }
+    };
+    let mut at_node = |i: usize| -> f64 {
+        if let Some(v) = nodes[i] {
+            return v;
+        }
+        let t = grid.node(i);
+        let mut sum = 0.0;
+        let mut j = if i % 2 == 0 { 1 } else { 0 };
+        while j < n {
+            sum += grid.values[j] * kernel(grid.node(j), t);
+            j += 2;
+        }
+        let v = 2.0 * grid.step * sum;
+        nodes[i] = Some(v);
+        v
+    };
+    at.iter()
+        .map(|&t| {
+            if n < 2 || !t.is_finite() {
+                return f64::NAN;
+            }
+            if t < grid.first || t > grid.last() {
+                let mut sum = 0.0;
+                for (j, v) in grid.values.iter().enumerate() {
+                    let w = if j == 0 || j == n - 1 { 0.5 } else { 1.0 };
+                    sum += w * v * kernel(grid.node(j), t);
+                }
+                return grid.step * sum;
+            }
+            let pos = (t - grid.first) / grid.step;
+            let i = (pos.floor() as usize).min(n - 2);
+            let frac = pos - i as f64;
+            let (a, b) = (at_node(i), at_node(i + 1));
+            a + (b - a) * frac
+        })
+        .collect()
+}
+
+// ---------------------------------------------------------------------------
+// Measured CD <-> ORD, with model bands for what lies outside the range.
+
+/// Bands that stand for what lies outside a measured range: inside it the
+/// measurement stands, so their own Dk there is taken out before the
+/// numerical transform, and their analytic Dn (or Dk) is added back.
+fn outside_model(set: &crate::data::DataSet, bands: &[crate::model::Band]) -> crate::model::Model {
+    crate::model::Model {
+        sample: crate::model::Sample { context: set.context, solvent: crate::solvent::Solvent::Constant(1.0) },
+        bands: bands.to_vec(),
+    }
+}
+
+fn even_grid_of(set: &crate::data::DataSet, values: &[f64]) -> crate::error::Result<EvenGrid> {
+    EvenGrid::resample(&set.wavenumbers(), values, set.x.len().max(MIN_KK_POINTS)).ok_or_else(|| {
+        crate::error::Error::new(crate::error::ErrorKind::OutOfRange, "data", format!("\"{}\" needs at least 2 points", set.name))
+    })
+}
+
+/// Points of the even grid at least (coarser data are interpolated).
+const MIN_KK_POINTS: usize = 512;
+
+fn unit_error(e: crate::units::UnitError) -> crate::error::Error {
+    crate::error::Error::new(crate::error::ErrorKind::OutOfRange, "data", e.0)
+}
+
+/// The observed rotation (deg, at the set's own concentration and path)
+/// that a measured CD spectrum predicts at wavenumbers `at`.
+pub fn rotation_from_cd(set: &crate::data::DataSet, bands: &[crate::model::Band], at: &[f64]) -> crate::error::Result<Vec<f64>> {
+    let c = set.context.concentration_mol_per_l;
+    let nu = set.wavenumbers();
+    let de = set.delta_epsilon().map_err(unit_error)?;
+    // Dk = De ln10 c / (4 pi nu), the inverse of spectra::epsilon_from_k.
+    let mut dk: Vec<f64> = de.iter().zip(&nu).map(|(d, n)| d / crate::spectra::epsilon_from_k(1.0, *n, c)).collect();
+    let model = outside_model(set, bands);
+    if !bands.is_empty() {
+        let inside = crate::spectra::evaluate(&model, &nu)?;
+        dk.iter_mut().zip(&inside.delta_k).for_each(|(v, b)| *v -= b);
+    }
+    let grid = even_grid_of(set, &dk)?;
+    let mut dn = transform_even(&grid, Direction::DeltaNFromDeltaK, at);
+    if !bands.is_empty() {
+        let all = crate::spectra::evaluate(&model, at)?;
+        dn.iter_mut().zip(&all.delta_n).for_each(|(v, b)| *v += b);
+    }
+    Ok(dn.iter().zip(at).map(|(d, n)| crate::units::degrees_from_delta_n(*d, *n, set.context.path_length_cm)).collect())
+}
+
+/// The ellipticity (mdeg, at the set's own concentration and path) that a
+/// measured ORD spectrum predicts at wavenumbers `at`.
+pub fn ellipticity_from_ord(set: &crate::data::DataSet, bands: &[crate::model::Band], at: &[f64]) -> crate::error::Result<Vec<f64>> {
+    let l = set.context.path_length_cm;
+    let nu = set.wavenumbers();
+    let phi = set.rotation_deg().map_err(unit_error)?;
+    let mut dn: Vec<f64> = phi.iter().zip(&nu).map(|(p, n)| crate::units::delta_n_from_degrees(*p, *n, l)).collect();
+    let model = outside_model(set, bands);
+    if !bands.is_empty() {
+        let inside = crate::spectra::evaluate(&model, &nu)?;
+        dn.iter_mut().zip(&inside.delta_n).for_each(|(v, b)| *v -= b);
+    }
+    let grid = even_grid_of(set, &dn)?;
+    let mut dk = transform_even(&grid, Direction::DeltaKFromDeltaN, at);
+    if !bands.is_empty() {
+        let all = crate::spectra::evaluate(&model, at)?;
+        dk.iter_mut().zip(&all.delta_k).for_each(|(v, b)| *v += b);
+    }
+    let c = set.context.concentration_mol_per_l;
+    let ctx = set.context;
+    dk.iter()
+        .zip(at)
+        .map(|(k, n)| {
+            let de = crate::spectra::epsilon_from_k(*k, *n, c);
+            crate::units::CdUnit::Millidegrees.from_delta_epsilon(de, f64::NAN, &ctx).map_err(unit_error)
+        })
+        .collect()
+}

@@ -1,7 +1,7 @@
 //! Spectra as CSV: one row per grid point, header names that carry units.
 
 use crate::spectra::Spectra;
-use crate::units::{AxisUnit, CdUnit};
+use crate::units::{AbsorptionUnit, AxisUnit, CdUnit, OrdUnit};
 use std::fmt::Write;
 
 /// Formats a number so that it reads back to the same f64, in plain notation
@@ -27,24 +27,29 @@ pub fn spectra_csv(s: &Spectra) -> String {
     let molar_ellipticity = s.cd_in(CdUnit::MolarEllipticity).unwrap_or_default();
     let mean_residue = s.cd_in(CdUnit::MeanResidueEllipticity).ok();
     let mut header = vec![
-        "wavelength_nm",
-        "wavenumber_cm1",
+        AxisUnit::Nanometre.column_name(),
+        AxisUnit::Wavenumber.column_name(),
         "n_L",
         "n_R",
         "k_L",
         "k_R",
-        "delta_n",
+        OrdUnit::DeltaN.column_name(),
         "delta_k",
-        "rotation_deg",
+        OrdUnit::Degrees.column_name(),
     ];
     if specific.is_some() {
-        header.push("specific_rotation_deg_dm-1_(g/mL)-1");
+        header.push(OrdUnit::SpecificRotation.column_name());
     }
-    header.extend(["molar_rotation_deg_cm2_dmol-1", "ellipticity_mdeg", "delta_epsilon_M-1_cm-1", "molar_ellipticity_deg_cm2_dmol-1"]);
+    header.extend([
+        OrdUnit::MolarRotation.column_name(),
+        CdUnit::Millidegrees.column_name(),
+        CdUnit::DeltaEpsilon.column_name(),
+        CdUnit::MolarEllipticity.column_name(),
+    ]);
     if mean_residue.is_some() {
-        header.push("mean_residue_ellipticity_deg_cm2_dmol-1");
+        header.push(CdUnit::MeanResidueEllipticity.column_name());
     }
-    header.extend(["epsilon_M-1_cm-1", "g_factor"]);
+    header.extend([AbsorptionUnit::MolarAbsorption.column_name(), CdUnit::Dissymmetry.column_name()]);
     let mut out = header.join(",");
     out.push('\n');
     for i in 0..s.len() {

@@ -224,6 +224,18 @@ impl CdUnit {
         }
     }
 
+    /// CSV column name, with its unit, as `chiroptic eval` and `import` write it.
+    pub fn column_name(self) -> &'static str {
+        match self {
+            CdUnit::Millidegrees => "ellipticity_mdeg",
+            CdUnit::DeltaEpsilon => "delta_epsilon_M-1_cm-1",
+            CdUnit::MolarEllipticity => "molar_ellipticity_deg_cm2_dmol-1",
+            CdUnit::MeanResidueEllipticity => "mean_residue_ellipticity_deg_cm2_dmol-1",
+            CdUnit::DeltaAbsorbance => "delta_absorbance",
+            CdUnit::Dissymmetry => "g_factor",
+        }
+    }
+
     /// Converts De (with e at the same point, for g) into this unit.
     pub fn from_delta_epsilon(self, de: f64, epsilon: f64, s: &SampleContext) -> Result<f64, UnitError> {
         let delta_a = de * s.concentration_mol_per_l * s.path_length_cm;
@@ -311,6 +323,16 @@ impl OrdUnit {
         }
     }
 
+    /// CSV column name, with its unit.
+    pub fn column_name(self) -> &'static str {
+        match self {
+            OrdUnit::Degrees => "rotation_deg",
+            OrdUnit::SpecificRotation => "specific_rotation_deg_dm-1_(g/mL)-1",
+            OrdUnit::MolarRotation => "molar_rotation_deg_cm2_dmol-1",
+            OrdUnit::DeltaN => "delta_n",
+        }
+    }
+
     /// Converts a rotation in degrees (observed, at wavenumber `nu`) into this unit.
     pub fn from_degrees(self, phi_deg: f64, nu: f64, s: &SampleContext) -> Result<f64, UnitError> {
         Ok(match self {
@@ -329,6 +351,79 @@ impl OrdUnit {
             OrdUnit::MolarRotation => value / molar_rotation_from_degrees(1.0, s),
             OrdUnit::DeltaN => degrees_from_delta_n(value, nu, s.path_length_cm),
         })
+    }
+}
+
+/// The absorption units of measured spectra.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum AbsorptionUnit {
+    /// Absorbance A = e c l (decadic).
+    Absorbance,
+    /// Molar absorption coefficient e, M^-1 cm^-1.
+    MolarAbsorption,
+}
+
+impl AbsorptionUnit {
+    pub const ALL: [AbsorptionUnit; 2] = [AbsorptionUnit::Absorbance, AbsorptionUnit::MolarAbsorption];
+
+    pub fn key(self) -> &'static str {
+        match self {
+            AbsorptionUnit::Absorbance => "absorbance",
+            AbsorptionUnit::MolarAbsorption => "epsilon",
+        }
+    }
+
+    pub fn parse(key: &str) -> Option<AbsorptionUnit> {
+        AbsorptionUnit::ALL.into_iter().find(|u| u.key() == key)
+    }
+
+    pub fn label(self) -> &'static str {
+        match self {
+            AbsorptionUnit::Absorbance => "A",
+            AbsorptionUnit::MolarAbsorption => "ε / M⁻¹ cm⁻¹",
+        }
+    }
+
+    pub fn column_name(self) -> &'static str {
+        match self {
+            AbsorptionUnit::Absorbance => "absorbance",
+            AbsorptionUnit::MolarAbsorption => "epsilon_M-1_cm-1",
+        }
+    }
+
+    /// Converts a value in this unit to e (M^-1 cm^-1).
+    pub fn to_epsilon(self, value: f64, s: &SampleContext) -> f64 {
+        match self {
+            AbsorptionUnit::Absorbance => value / (s.concentration_mol_per_l * s.path_length_cm),
+            AbsorptionUnit::MolarAbsorption => value,
+        }
+    }
+
+    pub fn from_epsilon(self, epsilon: f64, s: &SampleContext) -> f64 {
+        match self {
+            AbsorptionUnit::Absorbance => epsilon * s.concentration_mol_per_l * s.path_length_cm,
+            AbsorptionUnit::MolarAbsorption => epsilon,
+        }
+    }
+}
+
+impl AxisUnit {
+    /// Key used in documents and the CLI.
+    pub fn key(self) -> &'static str {
+        match self {
+            AxisUnit::Nanometre => "nm",
+            AxisUnit::Wavenumber => "cm-1",
+            AxisUnit::ElectronVolt => "ev",
+        }
+    }
+
+    /// CSV column name of the axis.
+    pub fn column_name(self) -> &'static str {
+        match self {
+            AxisUnit::Nanometre => "wavelength_nm",
+            AxisUnit::Wavenumber => "wavenumber_cm1",
+            AxisUnit::ElectronVolt => "energy_ev",
+        }
     }
 }
 

@@ -62,6 +62,8 @@ fn ten_bands(full_precision_widths: bool) -> Document {
         })
         .collect();
     Document {
+        data: Vec::new(),
+        readings: Vec::new(),
         chiroptic: 1,
         title: "INVENTED ten-band model".into(),
         sample: SampleDoc {
@@ -273,6 +275,8 @@ fn document() -> impl Strategy<Value = Document> {
             },
             bands,
             view,
+            data: Vec::new(),
+            readings: Vec::new(),
         })
 }
 

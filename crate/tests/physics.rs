@@ -40,6 +40,8 @@ fn doc(concentration: f64, path_cm: f64, molar_mass: Option<f64>, bands: Vec<Ban
         },
         bands,
         view: None,
+        data: Vec::new(),
+        readings: Vec::new(),
     }
 }
 

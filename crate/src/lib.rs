@@ -5,6 +5,7 @@
 //! (validated, canonical units) -> [`spectra::evaluate`] on a grid ->
 //! [`spectra::Spectra`] -> CSV, figures, the page.
 
+pub mod data;
 pub mod document;
 pub mod error;
 pub mod figures;
@@ -14,11 +15,11 @@ pub mod lines;
 pub mod link;
 pub mod lineshape;
 pub mod model;
+pub mod processing;
 pub mod solvent;
 pub mod spectra;
 pub mod table;
 pub mod units;
-pub mod view;
 
 #[cfg(not(target_arch = "wasm32"))]
 pub mod cli;

@@ -20,6 +20,7 @@ pub mod solvent;
 pub mod spectra;
 pub mod table;
 pub mod units;
+pub mod view;
 
 #[cfg(not(target_arch = "wasm32"))]
 pub mod cli;

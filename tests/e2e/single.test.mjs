@@ -87,3 +87,19 @@ test("the single file opens share links and the wiki view", async () => {
     await wiki.context.close();
   }
 });
+
+test("16: the embed code of the single file says it points at this computer", async () => {
+  const { page, context } = await openFile();
+  try {
+    await page.click("#share-menu summary");
+    assert.equal(await page.isVisible("#embed-file-warning"), true);
+    assert.match(await page.textContent("#embed-file-warning"), /file on this computer/);
+    assert.match(await page.inputValue("#embed-text"), /^<iframe src="file:\/\//);
+    await page.click("#copy-embed");
+    await page.waitForFunction(() => document.getElementById("embed-status").textContent !== "", null, { timeout: 5000 });
+    // Copied or not (the headless clipboard may refuse), the warning stays in view.
+    assert.equal(await page.isVisible("#embed-file-warning"), true);
+  } finally {
+    await context.close();
+  }
+});

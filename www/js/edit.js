@@ -66,6 +66,8 @@ export function noted({ merge = null } = {}) {
 /** Every edit of the document calls this once the document holds the change. */
 export function edit({ merge = null } = {}) {
   editMade();
+  // An axis held by a peak drag is let go at the next edit.
+  state.options.hold_cd_range = null;
   refresh();
   noted({ merge });
 }
@@ -74,6 +76,7 @@ export function edit({ merge = null } = {}) {
 export function loadDocument(doc, { record: asStep = true } = {}) {
   state.doc = doc;
   state.cursorX = null;
+  state.options.hold_cd_range = null;
   state.coreError = null;
   dropFieldsIn("#band-rows, #solvent-detail");
   clearLocalErrors();

@@ -28,6 +28,7 @@ async function main() {
     document: () => JSON.parse(JSON.stringify(state.doc)),
     drawnText: (key) => core.drawnText(key),
     bandHandles: () => bandHandles().map(({ i, px, py }) => ({ i, px, py })),
+    frames: () => structuredClone(state.drawn?.frames ?? []),
   });
   bindTheme();
   const fragment = readFragment();

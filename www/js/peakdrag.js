@@ -1,14 +1,15 @@
 // Dragging a band by its CD peak: across, the centre follows the pointer; up
 // and down, the rotatory strength scales so that the peak meets the pointer
-// (a band's CD is proportional to its R). The CD axis is held still for the
-// whole drag, so the pointer and the peak stay in one frame of reference.
+// (a band's CD is proportional to its R). The CD axis is held still from the
+// grab to the next edit, so the pointer and the peak stay in one frame of
+// reference (a rescaling axis made the strength run away).
 // One drag is one undo step.
 
 import { state } from "./state.js";
 import * as core from "./core.js";
 import { safe } from "./dom.js";
 import { fmtText } from "./format.js";
-import { refresh, edit } from "./edit.js";
+import { refresh, noted } from "./edit.js";
 import { closeStep } from "./history.js";
 import { sayDone } from "./messages.js";
 import { frameOf, xAt, yAt, pxOf, pyOf } from "./plots.js";
@@ -92,9 +93,10 @@ export function releasePeak(px, py) {
   Object.assign(state.peakDrag, { px, py });
   for (let k = 0; k < 3; k++) placePeak();
   state.peakDrag = null;
-  state.options.hold_cd_range = null;
+  // The axis stays as it was until the next edit, so the peak stays under
+  // the pointer that let it go.
   closeStep();
-  edit();
+  noted();
   const b = state.doc.bands[i];
   if (b) sayDone(`Band ${i + 1} (${b.name || `B${i + 1}`}): centre ${fmtText(b.center_nm, 5)} nm, R ${fmtText(b.rotatory_strength_1e40_cgs)}`);
 }

@@ -17,7 +17,7 @@ export const state = {
   /** Units of entry that are not part of the document. */
   ui: { centerUnit: "nm", widthUnit: "cm-1", concUnit: "mol/L", pathUnit: "cm" },
   /** Drawing options handed to the core (not part of the document). */
-  options: { dark: false, contributions: true, highlight: null, pixel_ratio: 1, legend: false, hold_y: null },
+  options: { dark: false, contributions: true, highlight: null, pixel_ratio: 1, legend: false, hold_cd_range: null },
   /** Crosshair position in axis units, or null. */
   cursorX: null,
   /** Last values of each solvent kind, restored on switching back. */

@@ -16,6 +16,7 @@ use std::io::Write;
 use std::path::{Path, PathBuf};
 
 /// The export and share verbs (render, link, open).
+mod measured;
 mod share;
 
 #[derive(Parser)]
@@ -104,6 +105,65 @@ enum Verb {
         /// The link, its fragment, or "-" to read it from standard input.
         link: String,
     },
+    /// What the tool understood of a data file (delimited text or JCAMP-DX), as CSV.
+    Import {
+        file: PathBuf,
+        #[command(flatten)]
+        columns: ColumnArgs,
+    },
+    /// Measured CD to ORD, or ORD to CD, by Kramers-Kronig.
+    Kk {
+        data: PathBuf,
+        #[command(flatten)]
+        columns: ColumnArgs,
+        /// A document whose sample gives the conditions and whose bands stand
+        /// for what lies outside the measured range.
+        #[arg(long)]
+        add: Option<PathBuf>,
+        #[arg(long, allow_negative_numbers = true)]
+        from: Option<f64>,
+        #[arg(long, allow_negative_numbers = true)]
+        to: Option<f64>,
+        #[arg(long, allow_negative_numbers = true)]
+        step: Option<f64>,
+        #[arg(long, default_value = "nm")]
+        unit: String,
+        /// The transformed value at the polarimeter lamp lines instead of a grid.
+        #[arg(long)]
+        lines: bool,
+    },
+}
+
+/// The flags that name a data file's columns where its header does not.
+#[derive(clap::Args)]
+struct ColumnArgs {
+    /// JCAMP-DX LINK files: the data block, counted from 1 in file order.
+    #[arg(long)]
+    block: Option<usize>,
+    /// The axis unit: nm, cm-1 or ev.
+    #[arg(long)]
+    x_unit: Option<String>,
+    /// What the measured column holds: cd, ord or absorption (with --data-unit).
+    #[arg(long)]
+    quantity: Option<String>,
+    /// Its unit key, e.g. mdeg, delta_epsilon, deg, absorbance.
+    #[arg(long = "data-unit")]
+    data_unit: Option<String>,
+    /// Which column is the measurement, counted from 1 after the axis.
+    #[arg(long)]
+    column: Option<usize>,
+}
+
+impl ColumnArgs {
+    fn flags(&self) -> measured::ColumnFlags {
+        measured::ColumnFlags {
+            block: self.block,
+            x_unit: self.x_unit.clone(),
+            quantity: self.quantity.clone(),
+            unit: self.data_unit.clone(),
+            column: self.column,
+        }
+    }
 }
 
 /// A failure: the exit code and the one line to print.
@@ -149,6 +209,18 @@ pub fn run<I: IntoIterator<Item = OsString>>(args: I) -> i32 {
         }
         Verb::Link { doc, base } => share::link(&doc, &base, &mut out),
         Verb::Open { link } => share::open(&link, &mut out),
+        Verb::Import { file, columns } => {
+            let mut notes = Vec::new();
+            let result = measured::import(&file, &columns.flags(), &mut out, &mut notes);
+            for n in notes {
+                eprintln!("chiroptic: {}: {n}", file.display());
+            }
+            result
+        }
+        Verb::Kk { data, columns, add, from, to, step, unit, lines } => {
+            let options = measured::KkOptions { add: add.as_deref(), from, to, step, unit: &unit, lines };
+            measured::kk(&data, &columns.flags(), &options, &mut out)
+        }
     };
     match result {
         Ok(()) => {

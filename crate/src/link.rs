@@ -32,7 +32,7 @@
 //! [`decode`]`(text) -> Result<Document>` takes a fragment, `#fragment` or a
 //! whole URL.
 
-use crate::document::{Document, MAX_DOCUMENT_BYTES};
+use crate::document::Document;
 use crate::error::{Error, ErrorKind, Result};
 use crate::model::Model;
 use base64::engine::general_purpose::URL_SAFE_NO_PAD;
@@ -43,8 +43,10 @@ use serde_json::{Map, Value};
 pub const LINK_VERSION: u32 = 1;
 /// Longest link text accepted (whole URL included): a 500-band model fits.
 pub const MAX_LINK_CHARS: usize = 100_000;
-/// Largest inflated payload: the document size limit.
-pub const MAX_INFLATED_BYTES: usize = MAX_DOCUMENT_BYTES;
+/// Largest inflated payload: 2 MiB, below the document size limit (a
+/// document file may carry large data sets; a link is for what a link can
+/// hold, and a decompression bomb must stop early).
+pub const MAX_INFLATED_BYTES: usize = 2 * 1024 * 1024;
 /// zlib level (miniz scale, 10 = best).
 const LEVEL: u8 = 10;
 

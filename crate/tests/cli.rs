@@ -168,3 +168,65 @@ fn bad_grids_exit_2() {
     assert_bad_input(&chiroptic(&["eval", &demo(), "--from", "200", "--to", "400", "--step", "1e-9"]), &["limit"]);
     assert_bad_input(&chiroptic(&["eval", &demo(), "--from", "1", "--to", "2", "--step", "1", "--unit", "furlong"]), &["furlong"]);
 }
+
+fn fixture(name: &str) -> String {
+    format!("{}/../fixtures/import/{name}", env!("CARGO_MANIFEST_DIR"))
+}
+
+#[test]
+fn import_writes_what_it_understood() {
+    let out = chiroptic(&["import", &fixture("good/semicolon-decimal-comma.csv")]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let csv = String::from_utf8(out.stdout).unwrap();
+    assert_eq!(csv.lines().next().unwrap(), "wavelength_nm,ellipticity_mdeg,ht_v");
+    assert_eq!(csv.lines().count(), 422);
+    // Decimal commas read as the numbers they are (invented demo fixture).
+    assert!(csv.lines().nth(1).unwrap().starts_with("190,"), "{}", csv.lines().nth(1).unwrap());
+    let notes = String::from_utf8_lossy(&out.stderr);
+    assert!(notes.contains("decimal comma") && notes.contains("metadata"), "{notes}");
+
+    let out = chiroptic(&["import", &fixture("good/tab-wavenumber.txt")]);
+    let csv = String::from_utf8(out.stdout).unwrap();
+    assert_eq!(csv.lines().next().unwrap(), "wavenumber_cm1,delta_epsilon_M-1_cm-1,sd_delta_epsilon_M-1_cm-1");
+}
+
+#[test]
+fn import_says_which_flags_name_the_columns() {
+    assert_bad_input(&chiroptic(&["import", &fixture("good/no-header.csv")]), &["no-header.csv", "--x-unit"]);
+    let out = chiroptic(&["import", &fixture("good/no-header.csv"), "--x-unit", "nm", "--quantity", "cd", "--data-unit", "mdeg"]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    assert_eq!(String::from_utf8(out.stdout).unwrap().lines().next().unwrap(), "wavelength_nm,ellipticity_mdeg");
+    assert_bad_input(&chiroptic(&["import", &fixture("broken/04-short-row.txt")]), &["04-short-row.txt", "line 38", "2 columns expected, found 1"]);
+    assert_bad_input(&chiroptic(&["import", &fixture("good/no-header.csv"), "--quantity", "cd"]), &["--data-unit"]);
+}
+
+#[test]
+fn kk_predicts_the_lamp_line_rotations_from_measured_cd() {
+    // The invented demo's CD "measured" over 190-400 nm (a fixture written by
+    // the NumPy/SciPy model), with the demo's own bands standing for what lies
+    // outside: the predicted rotations must be the model's own (chiroptic lines).
+    let out = chiroptic(&["kk", &fixture("good/semicolon-decimal-comma.csv"), "--add", &demo(), "--lines"]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let kk = String::from_utf8(out.stdout).unwrap();
+    assert_eq!(kk.lines().next().unwrap(), "line,wavelength_nm,rotation_deg");
+    let lines = String::from_utf8(chiroptic(&["lines", &demo()]).stdout).unwrap();
+    let na = |text: &str, col: usize| -> f64 { text.lines().find(|l| l.starts_with("Na D")).unwrap().split(',').nth(col).unwrap().parse().unwrap() };
+    let (predicted, model) = (na(&kk, 2), na(&lines, 2));
+    assert!((predicted - model).abs() < 0.01 * model.abs(), "Na D: {predicted} from CD vs {model} from the model");
+
+    // On a grid, in the data's own axis by default.
+    let out = chiroptic(&["kk", &fixture("good/semicolon-decimal-comma.csv"), "--from", "200", "--to", "300", "--step", "10"]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    assert_eq!(String::from_utf8(out.stdout).unwrap().lines().count(), 12);
+    // ORD -> CD: rotation data give ellipticity.
+    let out = chiroptic(&["eval", &demo(), "--from", "190", "--to", "600", "--step", "0.5"]);
+    let ord: String = String::from_utf8(out.stdout).unwrap().lines().map(|l| {
+        let f: Vec<&str> = l.split(',').collect();
+        format!("{},{}\n", f[0], f[8])
+    }).collect();
+    let p = temp_doc("ord.csv", &ord);
+    let out = chiroptic(&["kk", p.to_str().unwrap(), "--add", &demo(), "--from", "220", "--to", "320", "--step", "20"]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    assert_eq!(String::from_utf8(out.stdout).unwrap().lines().next().unwrap(), "wavelength_nm,ellipticity_mdeg");
+    assert_bad_input(&chiroptic(&["kk", &fixture("good/no-header.csv")]), &["--x-unit"]);
+}

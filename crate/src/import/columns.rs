@@ -56,8 +56,31 @@ fn axis_from_unit(unit: &str) -> Option<AxisUnit> {
     }
 }
 
+/// The column names chiroptic itself writes (`eval`, `import`, exports).
+fn own_column(header: &str) -> Option<ColumnKind> {
+    let h = header.trim();
+    let axes = [AxisUnit::Nanometre, AxisUnit::Wavenumber, AxisUnit::ElectronVolt];
+    if let Some(a) = axes.into_iter().find(|a| a.column_name() == h) {
+        return Some(ColumnKind::Axis(a));
+    }
+    let cd = CdUnit::ALL.into_iter().filter(|u| *u != CdUnit::Dissymmetry).map(Measured::Cd);
+    let ord = OrdUnit::ALL.into_iter().filter(|u| *u != OrdUnit::DeltaN).map(Measured::Ord);
+    let abs = AbsorptionUnit::ALL.into_iter().map(Measured::Absorption);
+    if let Some(m) = cd.chain(ord).chain(abs).find(|m| m.column_name() == h) {
+        return Some(ColumnKind::Measured(m));
+    }
+    match h {
+        "ht_v" => Some(ColumnKind::DetectorVolts),
+        _ if h.starts_with("sd_") => Some(ColumnKind::Uncertainty),
+        _ => None,
+    }
+}
+
 /// Recognises a column from its header; `None` when it cannot tell.
 pub fn recognise(header: &str) -> Option<ColumnKind> {
+    if let Some(kind) = own_column(header) {
+        return Some(kind);
+    }
     let (name, unit) = name_and_unit(header);
     let n = compact(&name);
     let u = compact(&unit);

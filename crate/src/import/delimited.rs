@@ -162,7 +162,17 @@ pub fn parse(text: &str) -> Result<Table, ImportError> {
     // The table: from the first run of MIN_TABLE_ROWS conforming rows (or
     // the longest run, if shorter) to the last conforming row.
     let need = MIN_TABLE_ROWS.min(rows);
-    let start = first_run(&all, need, &conforming).ok_or_else(|| ImportError::whole("no table of numbers found"))?;
+    let run = first_run(&all, need, &conforming).ok_or_else(|| ImportError::whole("no table of numbers found"))?;
+    // Broken rows just above that run (a value the reader refused among the
+    // first rows) still belong to the table: extend it up to the nearest line
+    // that does not start with a number (the header or metadata).
+    let mut start = run;
+    while let Some(p) = (0..start).rev().find(|i| !all[*i].trim().is_empty()) {
+        match convention.fields(all[p]).first() {
+            Some(f) if convention.number(f).is_some() => start = p,
+            _ => break,
+        }
+    }
     let end = (start..all.len()).rev().find(|i| conforming(all[*i]).is_some()).unwrap_or(start);
 
     let mut x = Vec::new();

@@ -177,7 +177,7 @@ impl Table {
                 .ok_or_else(|| {
                     let labels: Vec<String> = self.columns.iter().map(|c| format!("\"{}\"", c.label)).collect();
                     ImportError::whole(format!(
-                        "cannot tell what the columns hold ({}); name the measurement with --quantity cd|ord|absorption --unit KEY (and --column N, counted from 1 after the axis)",
+                        "cannot tell what the columns hold ({}); name the measurement with --quantity cd|ord|absorption --data-unit KEY (and --column N, counted from 1 after the axis)",
                         if labels.is_empty() { "none".to_string() } else { labels.join(", ") }
                     ))
                 })?,
@@ -188,7 +188,7 @@ impl Table {
             (None, Some(ColumnKind::Measured(m))) => m,
             (None, _) => {
                 return Err(ImportError::whole(format!(
-                    "cannot tell the quantity and unit of \"{}\"; name them with --quantity cd|ord|absorption --unit KEY",
+                    "cannot tell the quantity and unit of \"{}\"; name them with --quantity cd|ord|absorption --data-unit KEY",
                     column.label
                 )))
             }

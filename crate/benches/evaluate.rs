@@ -1,7 +1,7 @@
 //! Speed of `chiroptic::evaluate`: 10 bands on 2000 points, each lineshape,
 //! every output column (evaluate always computes them all, per-band
 //! contributions included). The model is fixtures/reference/bench_10_bands.json
-//! with its shape set per case; the grid is 180..650 nm in 2000 even steps.
+//! with its shape set per case; the grid is 190..650 nm in 2000 even steps (inside the water preset range).
 //!
 //! After criterion, and only under `cargo bench`, the same cases are timed
 //! in the NumPy/SciPy reference (fixtures/reference/make_reference.py

@@ -113,18 +113,44 @@ pub fn transform_even(grid: &EvenGrid, direction: Direction, at: &[f64]) -> Vec<
             Direction::DeltaKFromDeltaN => -2.0 * nu_j / (PI * d),
         }
     };
+    // At node i the kernel splits by partial fractions into
+    // 1/(nu_j - nu_i) = 1/((j - i) h) and 1/(nu_j + nu_i) = 1/(2 nu_0 + (i + j) h):
+    // Dn: (2t/pi)/(nu_j^2 - t^2) = (1/pi) [1/(nu_j - t) - 1/(nu_j + t)],
+    // Dk: -(2/pi) nu_j/(nu_j^2 - t^2) = -(1/pi) [1/(nu_j - t) + 1/(nu_j + t)].
+    // Both reciprocals come from tables, so the sums need no division.
+    let sign = match direction {
+        Direction::DeltaNFromDeltaK => -1.0,
+        Direction::DeltaKFromDeltaN => 1.0,
+    };
+    let scale = match direction {
+        Direction::DeltaNFromDeltaK => 1.0 / PI,
+        Direction::DeltaKFromDeltaN => -1.0 / PI,
+    };
+    let mut tables: Option<(Vec<f64>, Vec<f64>)> = None;
     let mut at_node = |i: usize| -> f64 {
         if let Some(v) = nodes[i] {
             return v;
         }
-        let t = grid.node(i);
-        let mut sum = 0.0;
+        let (difference, sum) = tables.get_or_insert_with(|| {
+            // difference[k] = 1/(k h) for k = 1..n (odd k are the ones used);
+            // sum[m] = 1/(2 nu_0 + m h) for m = 0..2n.
+            let difference = (0..=n).map(|k| if k == 0 { 0.0 } else { 1.0 / (k as f64 * grid.step) }).collect();
+            let sum = (0..=2 * n).map(|m| 1.0 / (2.0 * grid.first + m as f64 * grid.step)).collect();
+            (difference, sum)
+        });
+        // Nodes an odd number of steps below i, then above it.
+        let mut total = 0.0;
         let mut j = if i % 2 == 0 { 1 } else { 0 };
-        while j < n {
-            sum += grid.values[j] * kernel(grid.node(j), t);
+        while j < i {
+            total += grid.values[j] * (sign * sum[i + j] - difference[i - j]);
             j += 2;
         }
-        let v = 2.0 * grid.step * sum;
+        let mut j = i + 1;
+        while j < n {
+            total += grid.values[j] * (difference[j - i] + sign * sum[i + j]);
+            j += 2;
+        }
+        let v = 2.0 * grid.step * scale * total;
         nodes[i] = Some(v);
         v
     };

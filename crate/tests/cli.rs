@@ -230,3 +230,38 @@ fn kk_predicts_the_lamp_line_rotations_from_measured_cd() {
     assert_eq!(String::from_utf8(out.stdout).unwrap().lines().next().unwrap(), "wavelength_nm,ellipticity_mdeg");
     assert_bad_input(&chiroptic(&["kk", &fixture("good/no-header.csv")]), &["--x-unit"]);
 }
+
+fn shared_jcamp(name: &str) -> String {
+    let path = format!("{}/../../shared/data/jcamp/{name}", env!("CARGO_MANIFEST_DIR"));
+    assert!(std::path::Path::new(&path).exists(), "the public-domain JCAMP-DX test files are expected at {path}");
+    path
+}
+
+#[test]
+fn import_reads_jcamp_dx_with_its_units() {
+    // Values from ../shared/data/jcamp/README.md (decoded by two independent decoders).
+    let out = chiroptic(&["import", &shared_jcamp("dupinc1.jdx")]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let csv = String::from_utf8(out.stdout).unwrap();
+    assert_eq!(csv.lines().next().unwrap(), "wavelength_nm,absorbance");
+    let y = column(&csv, "absorbance");
+    assert_eq!(y.len(), 440);
+    assert!((y.iter().sum::<f64>() - 164.7604).abs() < 1e-9);
+    assert_eq!(csv.lines().nth(1).unwrap(), "250,1.1663", "decoded at the precision the file wrote");
+    // The header's wrong MINY is reported, not silently used.
+    assert!(String::from_utf8_lossy(&out.stderr).contains("MINY"));
+
+    // A LINK file with five blocks: one must be chosen, counted from 1.
+    assert_bad_input(&chiroptic(&["import", &shared_jcamp("blckpac1.jdx")]), &["5 data blocks", "--block"]);
+    assert_bad_input(&chiroptic(&["import", &shared_jcamp("blckpac1.jdx"), "--block", "9"]), &["block 9", "5"]);
+    let out = chiroptic(&["import", &shared_jcamp("blckpac1.jdx"), "--block", "5"]);
+    let csv = String::from_utf8(out.stdout).unwrap();
+    let y = column(&csv, "absorbance");
+    assert_eq!(y.len(), 176);
+    assert!((y.iter().sum::<f64>() - 11.1047322750).abs() < 1e-8);
+    // Transmittance is kept under the name the file gives it, unconverted.
+    let out = chiroptic(&["import", &shared_jcamp("pacdec1.jdx")]);
+    let csv = String::from_utf8(out.stdout).unwrap();
+    assert_eq!(csv.lines().next().unwrap(), "wavenumber_cm1,TRANSMITTANCE");
+    assert_bad_input(&chiroptic(&["import", &fixture("good/bom-crlf.csv"), "--block", "2"]), &["JCAMP-DX"]);
+}

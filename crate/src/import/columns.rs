@@ -167,7 +167,7 @@ pub fn jcamp_axis(x_units: &str) -> Option<AxisUnit> {
 /// MDEG, DEGREES, DELTA EPSILON ...); others are kept by name, unconverted.
 pub fn jcamp_kind(y_units: &str) -> Option<ColumnKind> {
     match compact(&y_units.to_lowercase()).as_str() {
-        "absorbance" => Some(ColumnKind::Measured(Measured::Absorption(AbsorptionUnit::Absorbance))),
+        "absorbance" | "a" => Some(ColumnKind::Measured(Measured::Absorption(AbsorptionUnit::Absorbance))),
         "millidegrees" | "mdeg" | "ellipticity" => Some(ColumnKind::Measured(Measured::Cd(CdUnit::Millidegrees))),
         "degrees" | "deg" => Some(ColumnKind::Measured(Measured::Ord(OrdUnit::Degrees))),
         "deltaepsilon" | "Δε" => Some(ColumnKind::Measured(Measured::Cd(CdUnit::DeltaEpsilon))),

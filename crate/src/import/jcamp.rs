@@ -869,6 +869,19 @@ fn checked(labels: &[Label], name: &str, notes: &mut Vec<String>) -> Result<Give
     })
 }
 
+/// Values times a factor. A factor of 10^-k (XFACTOR=.1, YFACTOR=.0001)
+/// divides by 10^k instead, which gives the decimal the file meant as the
+/// nearest double (11663 * 0.0001 is 1.1663000000000001; 11663 / 1e4 is 1.1663).
+fn scaled(values: &[f64], factor: f64) -> Vec<f64> {
+    let k = -factor.log10();
+    if factor > 0.0 && (1.0..=15.0).contains(&k.round()) && (k - k.round()).abs() < 1e-9 {
+        let divisor = 10f64.powi(k.round() as i32);
+        values.iter().map(|v| v / divisor).collect()
+    } else {
+        values.iter().map(|v| v * factor).collect()
+    }
+}
+
 fn finish_block(open: Open, end_line: usize) -> Result<Option<Block>, JcampError> {
     let Open { title, labels, data, .. } = open;
     let mut notes = Vec::new();
@@ -898,7 +911,7 @@ fn finish_block(open: Open, end_line: usize) -> Result<Option<Block>, JcampError
             if d.x.is_empty() {
                 return err(d.label_line, format!("XYPOINTS has no data lines before line {end_line}"));
             }
-            let x: Vec<f64> = d.x.iter().map(|v| v * xf).collect();
+            let x: Vec<f64> = scaled(&d.x, xf);
             check_points_header(&x, d.first_line, d.last_line, npoints, first_x, last_x, &mut notes);
             (x, d.y)
         }
@@ -906,7 +919,7 @@ fn finish_block(open: Open, end_line: usize) -> Result<Option<Block>, JcampError
     if x.iter().any(|v| !v.is_finite()) {
         return err(end_line, "after XFACTOR an X value is out of range");
     }
-    let y: Vec<f64> = raw_y.iter().map(|v| v * yf).collect();
+    let y: Vec<f64> = scaled(&raw_y, yf);
     if y.iter().any(|v| v.is_infinite()) {
         return err(yf_line.max(1), "after YFACTOR a Y value is out of range");
     }

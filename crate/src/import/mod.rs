@@ -144,9 +144,54 @@ pub struct Recognised {
     pub label: String,
 }
 
-/// Reads delimited text (JCAMP-DX dispatch lands with the decoder).
-pub fn read(text: &str, _block: Option<usize>) -> Result<Table, ImportError> {
-    delimited::parse(text)
+/// Sniffs the format: JCAMP-DX when the first labelled line is `##TITLE=`
+/// (or any `##` label), else delimited text.
+pub fn read(text: &str, block: Option<usize>) -> Result<Table, ImportError> {
+    let trimmed = text.trim_start_matches('\u{feff}').trim_start();
+    if trimmed.starts_with("##") {
+        jcamp_table(text, block)
+    } else {
+        if block.is_some() {
+            return Err(ImportError::whole("--block applies to JCAMP-DX files only; this is delimited text"));
+        }
+        delimited::parse(text)
+    }
+}
+
+fn jcamp_table(text: &str, block: Option<usize>) -> Result<Table, ImportError> {
+    let blocks = jcamp::parse(text).map_err(|e| ImportError::at(e.line, e.message))?;
+    if blocks.is_empty() {
+        return Err(ImportError::whole("the JCAMP-DX file holds no XYDATA or XYPOINTS block"));
+    }
+    let index = match block {
+        Some(0) => return Err(ImportError::whole("blocks are counted from 1")),
+        Some(n) if n > blocks.len() => {
+            return Err(ImportError::whole(format!("block {n} asked for; the file has {}", blocks.len())))
+        }
+        Some(n) => n - 1,
+        None if blocks.len() > 1 => {
+            return Err(ImportError::whole(format!(
+                "the file holds {} data blocks; choose one with --block N (1 to {})",
+                blocks.len(),
+                blocks.len()
+            )))
+        }
+        None => 0,
+    };
+    let b = &blocks[index];
+    let x_units = b.x_units.clone().unwrap_or_default();
+    let y_units = b.y_units.clone().unwrap_or_default();
+    let mut metadata: Vec<String> = b.labels.iter().map(|(k, v)| format!("##{k}={v}")).collect();
+    metadata.insert(0, format!("##TITLE={}", b.title));
+    Ok(Table {
+        metadata,
+        x_label: x_units.clone(),
+        axis: columns::jcamp_axis(&x_units),
+        x: b.x.clone(),
+        columns: vec![Column { label: y_units.clone(), kind: columns::jcamp_kind(&y_units), values: b.y.clone() }],
+        notes: b.notes.clone(),
+        format: "jcamp-dx",
+    })
 }
 
 impl Table {

@@ -36,6 +36,128 @@ pub struct Document {
     /// Rotations read on a polarimeter at lamp lines.
     #[serde(default, skip_serializing_if = "Vec::is_empty")]
     pub readings: Vec<ReadingDoc>,
+    /// Fit settings and, after a fit, its report.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub fit: Option<FitDoc>,
+}
+
+/// How to fit the bands to the data (see `fit`), and the last report.
+#[derive(Debug, Clone, PartialEq, Default, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct FitDoc {
+    /// Band fields free by default (`center_nm`, `fwhm_cm1`, `lorentz_fwhm_cm1`,
+    /// `rotatory_strength_1e40_cgs`, `dipole_strength_debye2`, or short names);
+    /// empty means centres, widths and rotatory strengths.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub free: Vec<String>,
+    /// Per-parameter choices: fixed, bounds, links.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub parameters: Vec<FitParameterDoc>,
+    /// One energy shift of every band centre, cm^-1.
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    pub shift: bool,
+    /// A baseline offset per data set.
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    pub offsets: bool,
+    /// A scale factor per data set (concentration uncertainty).
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    pub scales: bool,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub starts: Option<u32>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub max_iterations: Option<u32>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub seed: Option<u64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub report: Option<FitReportDoc>,
+}
+
+/// One parameter's mode: `parameter` is "BAND.field". Bounds are in the
+/// units the document uses (nm for centres); a link makes this parameter
+/// factor * (the other) + offset (offset in cm^-1 for centres, so that a
+/// vibronic progression keeps its spacing).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct FitParameterDoc {
+    pub parameter: String,
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    pub fixed: bool,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub min: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub max: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub link: Option<FitLinkDoc>,
+}
+
+fn one() -> f64 {
+    1.0
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct FitLinkDoc {
+    pub to: String,
+    #[serde(default = "one")]
+    pub factor: f64,
+    #[serde(default)]
+    pub offset: f64,
+}
+
+/// What a fit found (written by `fit`, read back for display).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct FitReportDoc {
+    pub parameters: Vec<ParameterEstimateDoc>,
+    pub chi_square: f64,
+    pub reduced_chi_square: f64,
+    pub degrees_of_freedom: usize,
+    pub points: usize,
+    pub free_parameters: usize,
+    pub aic: f64,
+    pub bic: f64,
+    pub weights: String,
+    pub sets: Vec<SetFitDoc>,
+    pub iterations: usize,
+    pub stop: String,
+    pub stop_reason: String,
+    pub starts: usize,
+    pub starts_at_best: usize,
+    pub correlation_names: Vec<String>,
+    /// Row-major, correlation_names.len() squared.
+    pub correlations: Vec<f64>,
+    pub strong_correlations: Vec<StrongPairDoc>,
+    pub warnings: Vec<String>,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ParameterEstimateDoc {
+    pub name: String,
+    pub value: f64,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub standard_error: Option<f64>,
+    /// free, fixed or linked.
+    pub mode: String,
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    pub at_bound: bool,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct SetFitDoc {
+    pub name: String,
+    pub points: usize,
+    pub chi_square: f64,
+    pub rms_weighted_residual: f64,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct StrongPairDoc {
+    pub a: String,
+    pub b: String,
+    pub r: f64,
 }
 
 /// A measured spectrum as imported, with the conditions it was measured at

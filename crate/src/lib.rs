@@ -9,6 +9,7 @@ pub mod data;
 pub mod document;
 pub mod error;
 pub mod figures;
+pub mod fit;
 pub mod import;
 pub mod kk;
 pub mod lines;

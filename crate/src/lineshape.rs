@@ -458,3 +458,60 @@ pub fn drude(center: f64, nu: f64) -> f64 {
 pub fn sellmeier_like(center: f64, nu: f64) -> f64 {
     2.0 / PI * center / (center * center - nu * nu)
 }
+
+/// A chiral shape and its derivatives with respect to the band's own
+/// parameters, for fitting: d/d(centre), d/d(FWHM) and, for the Voigt,
+/// d/d(Lorentzian FWHM) (all per cm^-1).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct ShapeDerivatives {
+    pub value: Complex64,
+    pub d_center: Complex64,
+    pub d_fwhm: Complex64,
+    pub d_lorentz_fwhm: Complex64,
+}
+
+/// w'(z) = -2 z w(z) + 2i/sqrt(pi) (from w(z) = exp(-z^2) erfc(-iz)).
+fn faddeeva_derivative(z: Complex64, w: Complex64) -> Complex64 {
+    -2.0 * z * w + Complex64::new(0.0, 2.0 / PI.sqrt())
+}
+
+impl Lineshape {
+    /// s(nu) and its parameter derivatives, in closed form.
+    pub fn derivatives(&self, nu: f64) -> ShapeDerivatives {
+        let zero = Complex64::new(0.0, 0.0);
+        match *self {
+            Lineshape::Lorentz { center, gamma } => {
+                // s = (2/pi) nu / D, D = nu_j^2 - nu^2 - i gamma nu.
+                let d = Complex64::new(center * center - nu * nu, -gamma * nu);
+                let value = (2.0 / PI) * nu / d;
+                let d2 = d * d;
+                ShapeDerivatives {
+                    value,
+                    d_center: -(2.0 / PI) * nu * 2.0 * center / d2,
+                    d_fwhm: (2.0 / PI) * nu * Complex64::new(0.0, nu) / d2,
+                    d_lorentz_fwhm: zero,
+                }
+            }
+            Lineshape::Gaussian { center, delta } => voigt_derivatives(center, delta, 0.0, nu, false),
+            Lineshape::Voigt { center, delta, lorentz_fwhm } => voigt_derivatives(center, delta, lorentz_fwhm, nu, true),
+        }
+    }
+}
+
+/// s = i/(sqrt(pi) Delta) [w(z1) + w(z2)], z1,2 = (nu -+ nu_j + i G_L/2)/Delta,
+/// Delta = FWHM / (2 sqrt(ln 2)).
+fn voigt_derivatives(center: f64, delta: f64, lorentz_fwhm: f64, nu: f64, voigt: bool) -> ShapeDerivatives {
+    let y = lorentz_fwhm / 2.0 / delta;
+    let z1 = Complex64::new((nu - center) / delta, y);
+    let z2 = Complex64::new((nu + center) / delta, y);
+    let (w1, w2) = (faddeeva(z1), faddeeva(z2));
+    let (dw1, dw2) = (faddeeva_derivative(z1, w1), faddeeva_derivative(z2, w2));
+    let pre = Complex64::new(0.0, 1.0 / (PI.sqrt() * delta));
+    let value = pre * (w1 + w2);
+    // dz1/dnu_j = -1/Delta, dz2/dnu_j = +1/Delta; dz/dDelta = -z/Delta; dz/dG_L = i/(2 Delta).
+    let d_center = pre * (dw2 - dw1) / delta;
+    let d_delta = -value / delta - pre * (dw1 * z1 + dw2 * z2) / delta;
+    let d_fwhm = d_delta * gaussian_delta_from_fwhm(1.0);
+    let d_lorentz_fwhm = if voigt { pre * (dw1 + dw2) * Complex64::new(0.0, 0.5 / delta) } else { Complex64::new(0.0, 0.0) };
+    ShapeDerivatives { value, d_center, d_fwhm, d_lorentz_fwhm }
+}

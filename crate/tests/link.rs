@@ -64,6 +64,7 @@ fn ten_bands(full_precision_widths: bool) -> Document {
     Document {
         data: Vec::new(),
         readings: Vec::new(),
+            fit: None,
         chiroptic: 1,
         title: "INVENTED ten-band model".into(),
         sample: SampleDoc {
@@ -277,6 +278,7 @@ fn document() -> impl Strategy<Value = Document> {
             view,
             data: Vec::new(),
             readings: Vec::new(),
+            fit: None,
         })
 }
 

@@ -42,6 +42,7 @@ fn doc(concentration: f64, path_cm: f64, molar_mass: Option<f64>, bands: Vec<Ban
         view: None,
         data: Vec::new(),
         readings: Vec::new(),
+            fit: None,
     }
 }
 

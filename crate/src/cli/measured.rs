@@ -150,6 +150,7 @@ fn notional_document() -> Document {
         view: None,
         data: Vec::new(),
         readings: Vec::new(),
+            fit: None,
     }
 }
 

@@ -1,0 +1,217 @@
+//! A Levenberg-Marquardt solver for weighted least squares.
+//!
+//! Written here rather than taken from the `levenberg-marquardt` crate: the
+//! fit must report progress after every iteration and stop when the page's
+//! Cancel asks (that crate runs to completion without a callback), bounds
+//! come through the variable transform of `params`, and the dense normal
+//! equations of a few dozen parameters need only a Cholesky factorisation,
+//! which keeps the wasm module small (no nalgebra).
+//!
+//! The method is Marquardt's (J. Soc. Indust. Appl. Math. 11, 431 (1963))
+//! with scaling by the diagonal of J^T J and the damping update of Nielsen
+//! (Technical Report IMM-REP-1999-05, Technical University of Denmark).
+
+/// Why the solver stopped.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Stop {
+    /// Chi-square changed by less than the relative tolerance.
+    Converged,
+    /// The gradient vanished.
+    Gradient,
+    IterationLimit,
+    Cancelled,
+    /// No step reduced chi-square (damping ran away).
+    Stalled,
+}
+
+impl Stop {
+    pub fn describe(self) -> &'static str {
+        match self {
+            Stop::Converged => "converged (chi-square changes by less than 1e-10 relative)",
+            Stop::Gradient => "converged (the gradient vanishes)",
+            Stop::IterationLimit => "stopped at the iteration limit before converging",
+            Stop::Cancelled => "cancelled",
+            Stop::Stalled => "stopped: no step lowers chi-square further",
+        }
+    }
+
+    pub fn key(self) -> &'static str {
+        match self {
+            Stop::Converged => "converged",
+            Stop::Gradient => "gradient",
+            Stop::IterationLimit => "iteration_limit",
+            Stop::Cancelled => "cancelled",
+            Stop::Stalled => "stalled",
+        }
+    }
+}
+
+/// A least-squares problem in unconstrained variables: residuals r(u) and
+/// their Jacobian (rows = residuals, columns = variables, row-major).
+pub trait Problem {
+    fn residuals(&self, u: &[f64], r: &mut Vec<f64>);
+    fn jacobian(&self, u: &[f64], r: &mut Vec<f64>, jac: &mut Vec<f64>);
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct Outcome {
+    pub u: Vec<f64>,
+    pub chi_square: f64,
+    pub iterations: usize,
+    pub stop: Stop,
+}
+
+pub const RELATIVE_TOLERANCE: f64 = 1e-10;
+
+/// Minimises sum r^2 from u0. `progress(iteration, chi_square)` is called
+/// after every accepted step; returning false cancels.
+pub fn minimise(problem: &dyn Problem, u0: &[f64], max_iterations: usize, progress: &mut dyn FnMut(usize, f64) -> bool) -> Outcome {
+    let n = u0.len();
+    let mut u = u0.to_vec();
+    let (mut r, mut jac) = (Vec::new(), Vec::new());
+    problem.jacobian(&u, &mut r, &mut jac);
+    let mut chi = sum_sq(&r);
+    if n == 0 || !chi.is_finite() {
+        return Outcome { u, chi_square: chi, iterations: 0, stop: if chi.is_finite() { Stop::Converged } else { Stop::Stalled } };
+    }
+    let mut lambda = -1.0;
+    let mut grow = 2.0;
+    let mut trial = Vec::new();
+    for iteration in 1..=max_iterations {
+        let m = r.len();
+        // Normal equations A = J^T J, g = J^T r.
+        let mut a = vec![0.0; n * n];
+        let mut g = vec![0.0; n];
+        for i in 0..m {
+            let row = &jac[i * n..(i + 1) * n];
+            for p in 0..n {
+                let jp = row[p];
+                if jp == 0.0 {
+                    continue;
+                }
+                g[p] += jp * r[i];
+                for q in p..n {
+                    a[p * n + q] += jp * row[q];
+                }
+            }
+        }
+        for p in 0..n {
+            for q in 0..p {
+                a[p * n + q] = a[q * n + p];
+            }
+        }
+        let gmax = g.iter().fold(0.0_f64, |m, v| m.max(v.abs()));
+        if gmax <= 1e-14 * chi.max(1e-300) {
+            return Outcome { u, chi_square: chi, iterations: iteration - 1, stop: Stop::Gradient };
+        }
+        if lambda < 0.0 {
+            lambda = 1e-3 * (0..n).map(|p| a[p * n + p]).fold(0.0_f64, f64::max);
+        }
+        let scale: Vec<f64> = (0..n).map(|p| a[p * n + p].max(1e-30)).collect();
+        let mut accepted = false;
+        for _ in 0..60 {
+            let mut damped = a.clone();
+            for p in 0..n {
+                damped[p * n + p] += lambda * scale[p];
+            }
+            let step = match solve_cholesky(&damped, &g, n) {
+                Some(s) => s,
+                None => {
+                    lambda *= grow;
+                    grow *= 2.0;
+                    continue;
+                }
+            };
+            let candidate: Vec<f64> = u.iter().zip(&step).map(|(x, s)| x - s).collect();
+            problem.residuals(&candidate, &mut trial);
+            let new_chi = sum_sq(&trial);
+            // Predicted reduction of the quadratic model.
+            let predicted: f64 = step.iter().zip(&g).zip(&scale).map(|((s, gp), d)| s * (lambda * d * s + gp)).sum();
+            let rho = (chi - new_chi) / predicted.max(1e-300);
+            if new_chi.is_finite() && new_chi < chi && rho > 0.0 {
+                let old = chi;
+                u = candidate;
+                problem.jacobian(&u, &mut r, &mut jac);
+                chi = sum_sq(&r);
+                lambda *= (1.0 / 3.0_f64).max(1.0 - (2.0 * rho - 1.0).powi(3));
+                grow = 2.0;
+                accepted = true;
+                if !progress(iteration, chi) {
+                    return Outcome { u, chi_square: chi, iterations: iteration, stop: Stop::Cancelled };
+                }
+                if (old - chi) <= RELATIVE_TOLERANCE * old {
+                    return Outcome { u, chi_square: chi, iterations: iteration, stop: Stop::Converged };
+                }
+                break;
+            }
+            lambda *= grow;
+            grow *= 2.0;
+            if !lambda.is_finite() {
+                break;
+            }
+        }
+        if !accepted {
+            return Outcome { u, chi_square: chi, iterations: iteration, stop: Stop::Stalled };
+        }
+    }
+    Outcome { u, chi_square: chi, iterations: max_iterations, stop: Stop::IterationLimit }
+}
+
+pub fn sum_sq(r: &[f64]) -> f64 {
+    r.iter().map(|v| v * v).sum()
+}
+
+/// Solves A x = b for symmetric positive definite A (n x n, row-major) by
+/// Cholesky; `None` when A is not positive definite.
+pub fn solve_cholesky(a: &[f64], b: &[f64], n: usize) -> Option<Vec<f64>> {
+    let l = cholesky(a, n)?;
+    let mut y = b.to_vec();
+    for i in 0..n {
+        for k in 0..i {
+            y[i] -= l[i * n + k] * y[k];
+        }
+        y[i] /= l[i * n + i];
+    }
+    for i in (0..n).rev() {
+        for k in i + 1..n {
+            y[i] -= l[k * n + i] * y[k];
+        }
+        y[i] /= l[i * n + i];
+    }
+    Some(y)
+}
+
+fn cholesky(a: &[f64], n: usize) -> Option<Vec<f64>> {
+    let mut l = vec![0.0; n * n];
+    for i in 0..n {
+        for j in 0..=i {
+            let mut s = a[i * n + j];
+            for k in 0..j {
+                s -= l[i * n + k] * l[j * n + k];
+            }
+            if i == j {
+                if !(s > 0.0) || !s.is_finite() {
+                    return None;
+                }
+                l[i * n + i] = s.sqrt();
+            } else {
+                l[i * n + j] = s / l[j * n + j];
+            }
+        }
+    }
+    Some(l)
+}
+
+/// The inverse of a symmetric positive definite matrix; `None` if singular.
+pub fn inverse_spd(a: &[f64], n: usize) -> Option<Vec<f64>> {
+    let mut inv = vec![0.0; n * n];
+    for c in 0..n {
+        let mut e = vec![0.0; n];
+        e[c] = 1.0;
+        let col = solve_cholesky(a, &e, n)?;
+        for r in 0..n {
+            inv[r * n + c] = col[r];
+        }
+    }
+    Some(inv)
+}

@@ -1,0 +1,559 @@
+//! Fitting band models to measured spectra: weighted nonlinear least
+//! squares (Levenberg-Marquardt, `lm`), parameters free, fixed, bounded or
+//! linked (`params`), several data sets and lamp-line readings at once
+//! (`residuals`), from several starts (`multistart`), with a report of
+//! estimates, standard errors, correlations and model-comparison figures.
+
+pub mod lm;
+pub mod params;
+pub mod residuals;
+
+use crate::data::DataSet;
+use crate::document::{Document, FitDoc, FitParameterDoc, FitReportDoc, ParameterEstimateDoc, SetFitDoc, StrongPairDoc};
+use crate::error::{Error, ErrorKind, Result};
+use crate::import::Measured;
+use crate::model::Model;
+use crate::units::AxisUnit;
+use params::{Layout, Mode, Parameter, Target};
+use rand::{rngs::SmallRng, RngExt, SeedableRng};
+use residuals::{FitProblem, Observations};
+
+/// The band fields a fit can set, with the names documents and the CLI use.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Field {
+    Center,
+    Width,
+    LorentzWidth,
+    Rotatory,
+    Dipole,
+}
+
+impl Field {
+    pub const ALL: [Field; 5] = [Field::Center, Field::Width, Field::LorentzWidth, Field::Rotatory, Field::Dipole];
+
+    /// The document field name.
+    pub fn key(self) -> &'static str {
+        match self {
+            Field::Center => "center_nm",
+            Field::Width => "fwhm_cm1",
+            Field::LorentzWidth => "lorentz_fwhm_cm1",
+            Field::Rotatory => "rotatory_strength_1e40_cgs",
+            Field::Dipole => "dipole_strength_debye2",
+        }
+    }
+
+    /// Accepts the document name or a short one (centre, width, lorentz, R, D).
+    pub fn parse(s: &str) -> Option<Field> {
+        match s {
+            "center" | "centre" => Some(Field::Center),
+            "width" | "fwhm" => Some(Field::Width),
+            "lorentz" | "lorentz_width" => Some(Field::LorentzWidth),
+            "R" | "r" | "rotatory" => Some(Field::Rotatory),
+            "D" | "d" | "dipole" => Some(Field::Dipole),
+            other => Field::ALL.into_iter().find(|f| f.key() == other),
+        }
+    }
+
+    fn target(self, band: usize) -> Target {
+        match self {
+            Field::Center => Target::Center(band),
+            Field::Width => Target::Fwhm(band),
+            Field::LorentzWidth => Target::LorentzFwhm(band),
+            Field::Rotatory => Target::Rotatory(band),
+            Field::Dipole => Target::Dipole(band),
+        }
+    }
+}
+
+/// The default free fields: centres, widths and rotatory strengths.
+pub const DEFAULT_FREE: [Field; 3] = [Field::Center, Field::Width, Field::Rotatory];
+pub const DEFAULT_STARTS: u32 = 8;
+pub const DEFAULT_MAX_ITERATIONS: u32 = 300;
+/// Most starts and iterations a document may ask for.
+pub const MAX_STARTS: u32 = 256;
+pub const MAX_ITERATIONS: u32 = 100_000;
+/// |r| above this names a pair as strongly correlated.
+pub const STRONG_CORRELATION: f64 = 0.9;
+/// Polarimeter readability when a reading gives no uncertainty (common practice: 0.002 deg).
+pub const DEFAULT_READING_SD_DEG: f64 = 0.002;
+
+/// The result of a fit: the fitted document (bands updated, `fit.report`
+/// filled) and the report.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Fitted {
+    pub document: Document,
+    pub report: FitReportDoc,
+}
+
+fn band_index(doc: &Document, name: &str) -> Option<usize> {
+    doc.bands.iter().position(|b| b.name == name)
+}
+
+/// "BAND.field" -> (band, field).
+fn parse_parameter(doc: &Document, text: &str, at: &str) -> Result<(usize, Field)> {
+    let (band, field) = text.rsplit_once('.').ok_or_else(|| {
+        Error::new(ErrorKind::Syntax, at, format!("\"{text}\" should be BAND.FIELD, e.g. \"{}.center_nm\"", doc.bands.first().map(|b| b.name.as_str()).unwrap_or("B1")))
+    })?;
+    let b = band_index(doc, band).ok_or_else(|| Error::new(ErrorKind::UnknownName, at, format!("no band named \"{band}\"")))?;
+    let f = Field::parse(field).ok_or_else(|| {
+        Error::new(ErrorKind::UnknownName, at, format!("unknown field \"{field}\" (use {})", Field::ALL.map(|f| f.key()).join(", ")))
+    })?;
+    Ok((b, f))
+}
+
+/// A band field's start value in the fit's units (centre in cm^-1).
+fn start_value(doc: &Document, model: &Model, band: usize, field: Field) -> f64 {
+    let b = &doc.bands[band];
+    match field {
+        Field::Center => model.bands[band].lineshape.center(),
+        Field::Width => b.fwhm_cm1,
+        Field::LorentzWidth => b.lorentz_fwhm_cm1.unwrap_or(0.0),
+        Field::Rotatory => b.rotatory_strength_1e40_cgs,
+        Field::Dipole => b.dipole_strength_debye2,
+    }
+}
+
+fn parameter_name(doc: &Document, t: Target, sets: &[DataSet]) -> String {
+    let band = |i: usize| doc.bands.get(i).map(|b| b.name.clone()).unwrap_or_default();
+    match t {
+        Target::Center(i) => format!("{}.center_cm1", band(i)),
+        Target::Fwhm(i) => format!("{}.fwhm_cm1", band(i)),
+        Target::LorentzFwhm(i) => format!("{}.lorentz_fwhm_cm1", band(i)),
+        Target::Rotatory(i) => format!("{}.rotatory_strength_1e40_cgs", band(i)),
+        Target::Dipole(i) => format!("{}.dipole_strength_debye2", band(i)),
+        Target::Shift => "shift_cm1".into(),
+        Target::Offset(s) => format!("{}.offset", sets.get(s).map(|d| d.name.as_str()).unwrap_or("readings")),
+        Target::Scale(s) => format!("{}.scale", sets.get(s).map(|d| d.name.as_str()).unwrap_or("readings")),
+    }
+}
+
+/// Noise of a set from its own point-to-point scatter: the second
+/// differences of evenly sampled smooth data are noise, with variance 6 sigma^2.
+pub fn scatter_sigma(y: &[f64]) -> f64 {
+    if y.len() < 5 {
+        return 0.0;
+    }
+    let sum: f64 = y.windows(3).map(|w| (w[2] - 2.0 * w[1] + w[0]).powi(2)).sum();
+    (sum / (6.0 * (y.len() - 2) as f64)).sqrt()
+}
+
+/// Builds the parameters of a fit from the document's settings.
+fn parameters(doc: &Document, model: &Model, settings: &FitDoc, sets: &[DataSet], warnings: &mut Vec<String>) -> Result<Vec<Parameter>> {
+    let free: Vec<Field> = if settings.free.is_empty() {
+        DEFAULT_FREE.to_vec()
+    } else {
+        settings
+            .free
+            .iter()
+            .enumerate()
+            .map(|(i, f)| Field::parse(f).ok_or_else(|| Error::new(ErrorKind::UnknownName, format!("fit.free[{i}]"), format!("unknown field \"{f}\""))))
+            .collect::<Result<_>>()?
+    };
+    let has_absorption = sets.iter().any(|s| matches!(s.measured, Measured::Absorption(_)));
+    let mut out = Vec::new();
+    for (b, band) in doc.bands.iter().enumerate() {
+        for field in Field::ALL {
+            if field == Field::LorentzWidth && band.shape != "voigt" {
+                continue;
+            }
+            let start = start_value(doc, model, b, field);
+            let mut mode = if free.contains(&field) { Mode::Free { min: None, max: None } } else { Mode::Fixed };
+            // Physical limits as bounds: widths positive, D not negative.
+            if let Mode::Free { min, .. } = &mut mode {
+                match field {
+                    Field::Width => *min = Some(1.0_f64.min(start * 0.5)),
+                    Field::LorentzWidth | Field::Dipole => *min = Some(0.0_f64.min(start)),
+                    _ => {}
+                }
+            }
+            out.push(Parameter { target: field.target(b), name: format!("{}.{}", band.name, field.key()), start, mode });
+        }
+    }
+    // The document's own choices per parameter.
+    for (i, p) in settings.parameters.iter().enumerate() {
+        let at = format!("fit.parameters[{i}]");
+        let (b, field) = parse_parameter(doc, &p.parameter, &format!("{at}.parameter"))?;
+        let k = out.iter().position(|q| q.target == field.target(b)).ok_or_else(|| {
+            Error::new(ErrorKind::OutOfRange, format!("{at}.parameter"), format!("{} has no {}", doc.bands[b].name, field.key()))
+        })?;
+        out[k].mode = parameter_mode(doc, model, p, field, &at)?;
+    }
+    if !has_absorption {
+        let mut fixed_any = false;
+        for p in out.iter_mut().filter(|p| matches!(p.target, Target::Dipole(_))) {
+            if !matches!(p.mode, Mode::Fixed) {
+                fixed_any = true;
+            }
+            p.mode = Mode::Fixed;
+        }
+        if fixed_any {
+            warnings.push("D is not determined by CD and ORD alone (no absorption data): every dipole strength is held at its start value".into());
+        }
+    }
+    // With D fixed, |g| = 4|R|/D <= 2 bounds R.
+    let dipoles: Vec<(usize, f64, bool)> = out.iter().filter_map(|p| match p.target {
+        Target::Dipole(b) => Some((b, p.start, matches!(p.mode, Mode::Fixed))),
+        _ => None,
+    }).collect();
+    for (b, d, fixed) in dipoles {
+        // |R| <= D / (the smallest D that R = 1 allows).
+        let limit = d / crate::model::dissymmetry_limited_dipole_strength(1.0);
+        if let Some(p) = out.iter_mut().find(|p| p.target == Target::Rotatory(b)) {
+            if let (true, Mode::Free { min, max }) = (fixed, &mut p.mode) {
+                *min = Some(min.unwrap_or(-limit).max(-limit));
+                *max = Some(max.unwrap_or(limit).min(limit));
+                if p.start.abs() >= limit {
+                    p.start = p.start.clamp(-limit * 0.999, limit * 0.999);
+                }
+            }
+        }
+    }
+    if settings.shift {
+        out.push(Parameter { target: Target::Shift, name: "shift_cm1".into(), start: 0.0, mode: Mode::Free { min: None, max: None } });
+    }
+    for (s, set) in sets.iter().enumerate() {
+        if settings.offsets {
+            out.push(Parameter { target: Target::Offset(s), name: format!("{}.offset", set.name), start: 0.0, mode: Mode::Free { min: None, max: None } });
+        }
+        if settings.scales {
+            out.push(Parameter { target: Target::Scale(s), name: format!("{}.scale", set.name), start: 1.0, mode: Mode::Free { min: Some(0.0), max: None } });
+        }
+    }
+    Ok(out)
+}
+
+fn parameter_mode(doc: &Document, model: &Model, p: &FitParameterDoc, field: Field, at: &str) -> Result<Mode> {
+    if let Some(link) = &p.link {
+        let (b, f) = parse_parameter(doc, &link.to, &format!("{at}.link.to"))?;
+        if f != field {
+            return Err(Error::new(ErrorKind::OutOfRange, format!("{at}.link.to"), format!("a {} can only be linked to another {}", field.key(), field.key())));
+        }
+        for (name, v) in [("factor", link.factor), ("offset", link.offset)] {
+            crate::error::finite(&format!("{at}.link.{name}"), v)?;
+        }
+        return Ok(Mode::Linked { to: f.target(b), factor: link.factor, offset: link.offset });
+    }
+    if p.fixed {
+        return Ok(Mode::Fixed);
+    }
+    // Bounds are given in the units the user sees: nm for centres.
+    let convert = |v: Option<f64>, name: &str| -> Result<Option<f64>> {
+        v.map(|v| crate::error::finite(&format!("{at}.{name}"), v)).transpose()?;
+        Ok(v.map(|v| if field == Field::Center { AxisUnit::Nanometre.to_wavenumber(v) } else { v }))
+    };
+    let (mut min, mut max) = (convert(p.min, "min")?, convert(p.max, "max")?);
+    if field == Field::Center {
+        // nm bounds become cm^-1 bounds the other way round.
+        std::mem::swap(&mut min, &mut max);
+    }
+    let _ = model;
+    Ok(Mode::Free { min, max })
+}
+
+/// Fits the document's bands to its data sets and readings.
+pub fn fit(doc: &Document, model: &Model, sets: &[DataSet], progress: &mut dyn FnMut(usize, usize, f64) -> bool) -> Result<Fitted> {
+    let settings = doc.fit.clone().unwrap_or_default();
+    let starts = settings.starts.unwrap_or(DEFAULT_STARTS);
+    let max_iterations = settings.max_iterations.unwrap_or(DEFAULT_MAX_ITERATIONS);
+    if !(1..=MAX_STARTS).contains(&starts) {
+        return Err(Error::new(ErrorKind::OutOfRange, "fit.starts", format!("starts must lie in 1..{MAX_STARTS}")));
+    }
+    if !(1..=MAX_ITERATIONS).contains(&max_iterations) {
+        return Err(Error::new(ErrorKind::OutOfRange, "fit.max_iterations", format!("max_iterations must lie in 1..{MAX_ITERATIONS}")));
+    }
+    let fitted_sets: Vec<DataSet> = sets.iter().filter(|s| !s.hidden).cloned().collect();
+    let mut warnings = Vec::new();
+    let params = parameters(doc, model, &settings, &fitted_sets, &mut warnings)?;
+    coverage_warnings(doc, model, &fitted_sets, &mut warnings);
+    let layout = Layout::new(params).map_err(|m| Error::new(ErrorKind::OutOfRange, "fit.parameters", m))?;
+
+    // Weights: each point's own sd, else the set's scatter (relative weights).
+    let mut relative = false;
+    let weights: Vec<Vec<f64>> = fitted_sets
+        .iter()
+        .map(|s| match &s.sd {
+            Some(sd) => sd.iter().map(|v| 1.0 / v).collect(),
+            None => {
+                relative = true;
+                let sigma = scatter_sigma(&s.y);
+                let floor = 1e-6 * s.y.iter().fold(0.0_f64, |m, v| m.max(v.abs())).max(1e-300);
+                vec![1.0 / sigma.max(floor); s.y.len()]
+            }
+        })
+        .collect();
+    let readings: Vec<(f64, f64, f64, crate::units::SampleContext)> = doc
+        .readings
+        .iter()
+        .enumerate()
+        .map(|(i, r)| {
+            let at = format!("readings[{i}]");
+            crate::error::positive(&format!("{at}.wavelength_nm"), r.wavelength_nm, "wavelength")?;
+            crate::error::finite(&format!("{at}.rotation_deg"), r.rotation_deg)?;
+            let sd = match r.sd_deg {
+                Some(sd) => crate::error::positive(&format!("{at}.sd_deg"), sd, "standard deviation")?,
+                None => {
+                    relative = true;
+                    DEFAULT_READING_SD_DEG
+                }
+            };
+            let (ctx, _) = crate::data::conditions_context(&model.sample.context, r.conditions.as_ref(), &format!("{at}.conditions"))?;
+            Ok((AxisUnit::Nanometre.to_wavenumber(r.wavelength_nm), r.rotation_deg, 1.0 / sd, ctx))
+        })
+        .collect::<Result<_>>()?;
+    let obs = Observations { sets: &fitted_sets, weights: &weights, readings: &readings };
+    let problem = FitProblem::new(model, layout, &obs).map_err(|m| Error::new(ErrorKind::OutOfRange, "data", m))?;
+    if problem.is_empty() {
+        return Err(Error::new(ErrorKind::MissingField, "data", "nothing to fit: the document has no shown data set and no reading"));
+    }
+    let nfree = problem.layout.free.len();
+    if nfree == 0 {
+        return Err(Error::new(ErrorKind::OutOfRange, "fit", "no parameter is free"));
+    }
+    if problem.len() <= nfree {
+        return Err(Error::new(ErrorKind::OutOfRange, "fit", format!("{} points cannot determine {nfree} free parameters", problem.len())));
+    }
+
+    let outcome = multistart(&problem, starts as usize, max_iterations as usize, settings.seed.unwrap_or(1), progress);
+    let best = outcome.best.clone();
+    if !best.chi_square.is_finite() {
+        return Err(Error::new(ErrorKind::OutOfRange, "fit", "the fit did not converge: chi-square is not finite"));
+    }
+    let report = report(doc, &problem, &fitted_sets, &best, &outcome, relative, warnings);
+    let mut document = doc.clone();
+    write_back(&mut document, &problem, &problem.layout.values(&best.u));
+    let mut fit_doc = settings;
+    fit_doc.report = Some(report.clone());
+    document.fit = Some(fit_doc);
+    // The fitted model must itself be valid (a fit may not leave |g| <= 2, widths > 0 ...).
+    Model::from_document(&document).map_err(|e| Error::new(e.kind, e.field, format!("the fitted model is not valid: {}", e.message)))?;
+    Ok(Fitted { document, report })
+}
+
+/// Bands that no data set sees: warn, do not pretend.
+fn coverage_warnings(doc: &Document, model: &Model, sets: &[DataSet], warnings: &mut Vec<String>) {
+    let has_ord = sets.iter().any(|s| matches!(s.measured, Measured::Ord(_))) || !doc.readings.is_empty();
+    for (b, band) in model.bands.iter().enumerate() {
+        let center = band.lineshape.center();
+        let fwhm = doc.bands[b].fwhm_cm1;
+        let seen = sets.iter().filter(|s| !matches!(s.measured, Measured::Ord(_))).any(|s| {
+            s.x.iter().any(|x| (s.axis.to_wavenumber(*x) - center).abs() <= fwhm)
+        });
+        if !seen {
+            warnings.push(if has_ord {
+                format!("band {} lies outside every CD and absorption set's range: only its tail in the rotation constrains it", doc.bands[b].name)
+            } else {
+                format!("band {} lies outside every data set's range: the data cannot constrain it", doc.bands[b].name)
+            });
+        }
+    }
+}
+
+fn write_back(doc: &mut Document, problem: &FitProblem, values: &[f64]) {
+    let shift = problem.layout.parameters.iter().zip(values).find(|(p, _)| p.target == Target::Shift).map(|(_, v)| *v).unwrap_or(0.0);
+    for (p, v) in problem.layout.parameters.iter().zip(values) {
+        match p.target {
+            Target::Center(b) => doc.bands[b].center_nm = AxisUnit::Nanometre.from_wavenumber(v + shift),
+            Target::Fwhm(b) => doc.bands[b].fwhm_cm1 = *v,
+            Target::LorentzFwhm(b) => doc.bands[b].lorentz_fwhm_cm1 = Some(*v),
+            Target::Rotatory(b) => doc.bands[b].rotatory_strength_1e40_cgs = *v,
+            Target::Dipole(b) => doc.bands[b].dipole_strength_debye2 = *v,
+            _ => {}
+        }
+    }
+}
+
+/// Every start's outcome and the best.
+pub struct Starts {
+    pub best: lm::Outcome,
+    pub all: Vec<lm::Outcome>,
+}
+
+/// Local fits from the given start and from `starts - 1` perturbed starts
+/// (each free value moved by up to 20 % of itself, or of its width for a
+/// centre, kept inside its bounds), on two threads natively.
+pub fn multistart(problem: &FitProblem, starts: usize, max_iterations: usize, seed: u64, progress: &mut dyn FnMut(usize, usize, f64) -> bool) -> Starts {
+    let first = problem.layout.start();
+    let mut rng = SmallRng::seed_from_u64(seed);
+    let mut points = vec![first.clone()];
+    for _ in 1..starts {
+        points.push(perturbed(problem, &mut rng));
+    }
+    let run = |u0: &Vec<f64>, report: &mut dyn FnMut(usize, f64) -> bool| lm::minimise(problem, u0, max_iterations, report);
+    let mut all: Vec<lm::Outcome> = Vec::with_capacity(points.len());
+    #[cfg(not(target_arch = "wasm32"))]
+    {
+        // The first start reports progress (and can cancel); the rest run
+        // beside it on the other core.
+        let (head, tail) = points.split_at(1);
+        std::thread::scope(|scope| {
+            let helper = scope.spawn(|| tail.iter().map(|u0| run(u0, &mut |_, _| true)).collect::<Vec<_>>());
+            all.push(run(&head[0], &mut |i, chi| progress(0, i, chi)));
+            all.extend(helper.join().unwrap_or_default());
+        });
+    }
+    #[cfg(target_arch = "wasm32")]
+    for (k, u0) in points.iter().enumerate() {
+        all.push(run(u0, &mut |i, chi| progress(k, i, chi)));
+    }
+    let best = all
+        .iter()
+        .filter(|o| o.chi_square.is_finite())
+        .min_by(|a, b| a.chi_square.total_cmp(&b.chi_square))
+        .cloned()
+        .unwrap_or_else(|| all[0].clone());
+    Starts { best, all }
+}
+
+fn perturbed(problem: &FitProblem, rng: &mut SmallRng) -> Vec<f64> {
+    let layout = &problem.layout;
+    layout
+        .free
+        .iter()
+        .map(|(i, t)| {
+            let p = &layout.parameters[*i];
+            let scale = match p.target {
+                Target::Center(b) => layout.parameters.iter().find(|q| q.target == Target::Fwhm(b)).map(|q| q.start).unwrap_or(p.start.abs() * 0.05),
+                Target::Shift | Target::Offset(_) => 0.0,
+                _ => p.start.abs(),
+            };
+            let v = p.start + 0.2 * scale * rng.random_range(-1.0..1.0);
+            let v = match p.mode {
+                Mode::Free { min, max } => v.clamp(min.unwrap_or(f64::NEG_INFINITY), max.unwrap_or(f64::INFINITY)),
+                _ => v,
+            };
+            t.variable(v)
+        })
+        .collect()
+}
+
+fn report(doc: &Document, problem: &FitProblem, sets: &[DataSet], best: &lm::Outcome, outcome: &Starts, relative: bool, mut warnings: Vec<String>) -> FitReportDoc {
+    let values = problem.layout.values(&best.u);
+    let (mut r, mut jv) = (Vec::new(), Vec::new());
+    problem.value_jacobian(&values, &mut r, &mut jv);
+    let np = problem.layout.parameters.len();
+    let n = r.len();
+    let k = problem.layout.free.len();
+    let dof = n.saturating_sub(k);
+    let chi = lm::sum_sq(&r);
+    let reduced = if dof > 0 { chi / dof as f64 } else { f64::NAN };
+    // Covariance of the free parameters in their model values: (J^T J)^-1,
+    // scaled by reduced chi-square when the weights are relative.
+    let free_cols: Vec<usize> = problem.layout.free.iter().map(|(i, _)| *i).collect();
+    let mut a = vec![0.0; k * k];
+    for row in 0..n {
+        for (p, cp) in free_cols.iter().enumerate() {
+            // Linked parameters move with their free one.
+            let jp = column_total(problem, &jv, row, np, p, *cp);
+            for (q, cq) in free_cols.iter().enumerate().skip(p) {
+                a[p * k + q] += jp * column_total(problem, &jv, row, np, q, *cq);
+            }
+        }
+    }
+    for p in 0..k {
+        for q in 0..p {
+            a[p * k + q] = a[q * k + p];
+        }
+    }
+    let covariance = lm::inverse_spd(&a, k);
+    let scale = if relative { reduced } else { 1.0 };
+    let se: Vec<f64> = (0..k).map(|p| covariance.as_ref().map(|c| (c[p * k + p] * scale).sqrt()).unwrap_or(f64::NAN)).collect();
+    if covariance.is_none() {
+        warnings.push("the parameters are not all determined by the data (the normal matrix is singular): standard errors are missing".into());
+    }
+    let mut names = Vec::new();
+    let mut correlations = vec![0.0; k * k];
+    let mut strong = Vec::new();
+    for (p, (i, _)) in problem.layout.free.iter().enumerate() {
+        names.push(parameter_name(doc, problem.layout.parameters[*i].target, sets));
+        for q in 0..k {
+            let c = covariance.as_ref().map(|c| c[p * k + q] / (c[p * k + p] * c[q * k + q]).sqrt()).unwrap_or(f64::NAN);
+            correlations[p * k + q] = c;
+        }
+    }
+    for p in 0..k {
+        for q in p + 1..k {
+            let c = correlations[p * k + q];
+            if c.abs() >= STRONG_CORRELATION {
+                strong.push(StrongPairDoc { a: names[p].clone(), b: names[q].clone(), r: c });
+            }
+        }
+    }
+    let parameters = problem
+        .layout
+        .parameters
+        .iter()
+        .zip(&values)
+        .enumerate()
+        .map(|(i, (p, v))| {
+            let free_index = problem.layout.free.iter().position(|(j, _)| *j == i);
+            let transform = free_index.map(|f| problem.layout.free[f].1);
+            let (mode, se_value) = match (&p.mode, free_index, problem.layout.map[i]) {
+                (Mode::Fixed, _, _) => ("fixed", None),
+                (Mode::Linked { .. }, _, Some((kf, factor, _))) => ("linked", Some(se[kf] * factor.abs())),
+                (_, Some(f), _) => ("free", Some(se[f])),
+                _ => ("fixed", None),
+            };
+            ParameterEstimateDoc {
+                name: parameter_name(doc, p.target, sets),
+                value: *v,
+                standard_error: se_value.filter(|s| s.is_finite()),
+                mode: mode.into(),
+                at_bound: transform.is_some_and(|t| t.at_bound(*v)),
+            }
+        })
+        .collect();
+    let set_of = problem.point_sets();
+    let per_set = (0..problem.set_count)
+        .map(|s| {
+            let rs: Vec<f64> = r.iter().zip(&set_of).filter(|(_, k)| **k == s).map(|(v, _)| *v).collect();
+            SetFitDoc {
+                name: sets.get(s).map(|d| d.name.clone()).unwrap_or_else(|| "lamp-line readings".into()),
+                points: rs.len(),
+                chi_square: lm::sum_sq(&rs),
+                rms_weighted_residual: (lm::sum_sq(&rs) / rs.len().max(1) as f64).sqrt(),
+            }
+        })
+        .collect();
+    let nf = n as f64;
+    let (aic, bic) = if relative {
+        let base = nf * (chi / nf).ln();
+        (base + 2.0 * k as f64, base + k as f64 * nf.ln())
+    } else {
+        (chi + 2.0 * k as f64, chi + k as f64 * nf.ln())
+    };
+    let at_best = outcome.all.iter().filter(|o| (o.chi_square - best.chi_square).abs() <= 1e-6 * best.chi_square.max(1e-300)).count();
+    FitReportDoc {
+        parameters,
+        chi_square: chi,
+        reduced_chi_square: reduced,
+        degrees_of_freedom: dof,
+        points: n,
+        free_parameters: k,
+        aic,
+        bic,
+        weights: if relative { "relative (from each set's scatter)".into() } else { "from the given uncertainties".into() },
+        sets: per_set,
+        iterations: best.iterations,
+        stop: best.stop.key().into(),
+        stop_reason: best.stop.describe().into(),
+        starts: outcome.all.len(),
+        starts_at_best: at_best,
+        correlation_names: names,
+        correlations,
+        strong_correlations: strong,
+        warnings,
+    }
+}
+
+/// d r_row / d(free value p): its own column plus those of parameters linked to it.
+fn column_total(problem: &FitProblem, jv: &[f64], row: usize, np: usize, p: usize, own: usize) -> f64 {
+    let mut total = 0.0;
+    for (i, m) in problem.layout.map.iter().enumerate() {
+        if let Some((k, factor, _)) = m {
+            if *k == p {
+                total += jv[row * np + i] * if i == own { 1.0 } else { *factor };
+            }
+        }
+    }
+    total
+}

@@ -147,7 +147,7 @@ fn reversed_ranges_draw_a_reversed_axis() {
 }
 
 #[test]
-fn index_plot_has_delta_n_on_a_secondary_axis() {
+fn index_plot_has_delta_n_on_a_secondary_axis_with_a_shared_zero() {
     let m = demo();
     let s = spectra(&m, 190.0, 650.0, 400, AxisUnit::Nanometre);
     let mut req = PlotRequest::new(PlotKind::Index, &s, AxisUnit::Nanometre, (190.0, 650.0));
@@ -156,12 +156,18 @@ fn index_plot_has_delta_n_on_a_secondary_axis() {
     let (lo, hi) = frame.y2_range.expect("secondary axis");
     assert!(lo < 0.0 && hi > 0.0);
     let t = texts(&out);
-    assert!(t.iter().any(|x| x.starts_with("Δn / 10") && x.contains("n_L − n_R")), "{t:?}");
+    // Subscripts typeset, no "_L" (the same text goes to canvas and SVG).
+    assert!(t.iter().any(|x| x.starts_with("Δn / 10") && x.contains("nₗ − nᵣ")), "{t:?}");
+    assert!(t.iter().all(|x| !x.contains('_')), "{t:?}");
     let first_band = m.bands.first().map(|b| b.name.clone()).unwrap_or_default();
-    for name in ["n_L", "n_R", "Δn", first_band.as_str()] {
+    for name in ["n̄ − n(solvent)", "Δn", first_band.as_str()] {
         assert!(t.iter().any(|x| x == name), "legend lacks {name}: {t:?}");
     }
     assert!(frame.y2_at(f64::from(frame.bottom)).is_some());
+    // One zero line serves both axes: zero lies at the same height on each.
+    let (a, b) = frame.y_range;
+    let (left, right) = (-a / (b - a), -lo / (hi - lo));
+    assert!((left - right).abs() < 1e-9, "zero at {left} (left) and {right} (right)");
 }
 
 #[test]

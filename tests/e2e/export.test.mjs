@@ -60,7 +60,8 @@ test("SVG export parses and its labels are the canvas plot's", async () => {
       const keyed = await svgTexts(page, (await downloadText(page, `#export-${key}-svg`)).text);
       const extra = [...keyed.texts];
       for (const t of canvas) extra.splice(extra.indexOf(t), 1);
-      const traces = key === "index" ? ["n_L", "n_R", "Δn", ...bandNames] : ["sum", ...bandNames];
+      // The Index plot: the bands' excess over the solvent index and Δn (issue 8, defect 9).
+      const traces = key === "index" ? ["n̄ − n(solvent)", "Δn", ...bandNames] : ["sum", ...bandNames];
       assert.deepEqual(sorted(extra), sorted(traces), `${key}: the key names the traces`);
     }
     assert.deepEqual(log.errors, []);

@@ -84,6 +84,7 @@ export function showResult(r) {
     if (box) box.checked = r.plots.includes(key);
   }
   renderLines(r.lines);
+  renderKeys(r.keys ?? {});
   for (const f of r.frames) {
     const label = r.y_labels?.[f.plot] ?? "";
     const [a, b] = r.x_range;
@@ -93,6 +94,20 @@ export function showResult(r) {
     );
   }
   drawCrosshair();
+}
+
+/** The key beside each plot's title: its summed traces (bands are named by the band list). */
+function renderKeys(keys) {
+  for (const [plot, entries] of Object.entries(keys)) {
+    const box = $(`key-${plot}`);
+    if (!box) continue;
+    const items = entries.map((e) => {
+      const item = el("span", { className: "key-item" }, el("span", { className: "key-line" }), e.right_axis ? `${e.name} (right)` : e.name);
+      item.style.setProperty("--key", e.colour);
+      return item;
+    });
+    box.replaceChildren(...items);
+  }
 }
 
 const cssVar = (name) => getComputedStyle(document.documentElement).getPropertyValue(name).trim();
@@ -129,7 +144,8 @@ export function drawCrosshair() {
     ctx.setLineDash([]);
     ctx.globalAlpha = 1;
     const plot = r.plots.find((p) => p.plot === key);
-    const dot = plot?.values.find((v) => v.name === "sum" || v.name === "n_L");
+    // The first value is the plot's (first) sum, on the left axis.
+    const dot = plot?.values[0];
     if (dot && Number.isFinite(dot.value)) {
       ctx.fillStyle = ink;
       ctx.beginPath();
@@ -155,9 +171,10 @@ function renderReadout(r) {
   };
   const parts = [part(`λ ${fmtText(r.nm, 5)} nm (${fmtText(r.cm1, 5)} cm⁻¹, ${fmtText(r.ev, 4)} eV)`, "x", r.x)];
   for (const p of r.plots) {
-    const v = Object.fromEntries(p.values.map((x) => [x.name, x.value]));
-    if (p.plot === "index") parts.push(part(`n ${v.n_L?.toFixed(6)}, Δn ${fmtText(v["Δn"])}`, p.plot, v["Δn"]));
-    else parts.push(part(quantity(p.label, v.sum), p.plot, v.sum));
+    if (p.plot === "index") {
+      const [mean, dn] = p.values;
+      parts.push(part(`${mean.name} ${fmtText(mean.value)}, ${dn.name} ${fmtText(dn.value)}`, p.plot, dn.value));
+    } else parts.push(part(quantity(p.label, p.values[0].value), p.plot, p.values[0].value));
   }
   out.replaceChildren(...parts.flatMap((s, i) => (i ? [el("span", { className: "sep", textContent: " │ " }), s] : [s])));
 }

@@ -112,6 +112,15 @@ struct Drawn {
     frames: Vec<FrameOut>,
     lines: Vec<LineOut>,
     y_labels: HashMap<&'static str, &'static str>,
+    /// The summed traces of each shown plot, for the key beside it.
+    keys: HashMap<&'static str, Vec<KeyOut>>,
+}
+
+#[derive(Serialize)]
+struct KeyOut {
+    name: &'static str,
+    colour: String,
+    right_axis: bool,
 }
 
 #[derive(Serialize)]
@@ -377,6 +386,14 @@ impl Workbench {
 
     fn report(&self, view: &View, frames: &[(PlotKind, PlotFrame)], lines: Vec<LineOut>) -> Drawn {
         let y_labels = view.plots.iter().map(|k| (k.key(), figures::y_label(*k, view.cd_unit, view.ord_unit))).collect();
+        let theme = figures::theme(self.options.dark);
+        let key_of = |k: PlotKind| {
+            figures::sum_key(k, &theme)
+                .into_iter()
+                .map(|e| KeyOut { name: e.name, colour: figures::hex(e.colour), right_axis: e.right_axis })
+                .collect()
+        };
+        let keys = view.plots.iter().map(|k| (k.key(), key_of(*k))).collect();
         Drawn {
             axis_unit: axis_key(view.axis),
             axis_label: figures::axis_label(view.axis),
@@ -389,6 +406,7 @@ impl Workbench {
             frames: frames.iter().map(|(k, f)| frame_out(*k, f)).collect(),
             lines,
             y_labels,
+            keys,
         }
     }
 }

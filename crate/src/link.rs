@@ -107,10 +107,7 @@ fn shorten(value: Value) -> Result<Value> {
                 let code = match code_of(&k) {
                     Some(c) => c.to_string(),
                     None if key_of(&k).is_some() => {
-                        return Err(link_error(
-                            ErrorKind::Io,
-                            format!("internal: document key \"{k}\" clashes with a link code"),
-                        ))
+                        return Err(link_error(ErrorKind::Io, format!("internal: document key \"{k}\" clashes with a link code")))
                     }
                     None => k,
                 };
@@ -131,9 +128,9 @@ fn shorten(value: Value) -> Result<Value> {
 
 fn expand(value: Value) -> Value {
     match value {
-        Value::Object(map) => Value::Object(
-            map.into_iter().map(|(k, v)| (key_of(&k).map(str::to_string).unwrap_or(k), expand(v))).collect(),
-        ),
+        Value::Object(map) => {
+            Value::Object(map.into_iter().map(|(k, v)| (key_of(&k).map(str::to_string).unwrap_or(k), expand(v))).collect())
+        }
         Value::Array(items) => Value::Array(items.into_iter().map(expand).collect()),
         other => other,
     }
@@ -141,10 +138,9 @@ fn expand(value: Value) -> Value {
 
 /// The fragment (without `#`) that carries `doc`.
 pub fn encode(doc: &Document) -> Result<String> {
-    let value = serde_json::to_value(doc)
-        .map_err(|e| link_error(ErrorKind::Syntax, format!("the document cannot be written: {e}")))?;
-    let compact = serde_json::to_vec(&shorten(value)?)
-        .map_err(|e| link_error(ErrorKind::Syntax, format!("the document cannot be written: {e}")))?;
+    let value = serde_json::to_value(doc).map_err(|e| link_error(ErrorKind::Syntax, format!("the document cannot be written: {e}")))?;
+    let compact =
+        serde_json::to_vec(&shorten(value)?).map_err(|e| link_error(ErrorKind::Syntax, format!("the document cannot be written: {e}")))?;
     let packed = miniz_oxide::deflate::compress_to_vec_zlib(&compact, LEVEL);
     Ok(format!("c{LINK_VERSION}.{}", URL_SAFE_NO_PAD.encode(packed)))
 }
@@ -158,10 +154,7 @@ pub fn share_url(base: &str, doc: &Document) -> Result<String> {
 /// Reads a link: a fragment, `#fragment` or a whole URL.
 pub fn decode(text: &str) -> Result<Document> {
     if text.len() > MAX_LINK_CHARS {
-        return Err(link_error(
-            ErrorKind::TooLarge,
-            format!("the link is {} characters long; the limit is {MAX_LINK_CHARS}", text.len()),
-        ));
+        return Err(link_error(ErrorKind::TooLarge, format!("the link is {} characters long; the limit is {MAX_LINK_CHARS}", text.len())));
     }
     let text = text.trim();
     let fragment = text.rsplit_once('#').map_or(text, |(_, f)| f);
@@ -183,21 +176,18 @@ pub fn decode(text: &str) -> Result<Document> {
     let json = miniz_oxide::inflate::decompress_to_vec_zlib_with_limit(&packed, MAX_INFLATED_BYTES).map_err(|e| {
         use miniz_oxide::inflate::TINFLStatus as S;
         match e.status {
-            S::HasMoreOutput => link_error(
-                ErrorKind::TooLarge,
-                format!("the link expands to more than {MAX_INFLATED_BYTES} bytes; refused"),
-            ),
+            S::HasMoreOutput => {
+                link_error(ErrorKind::TooLarge, format!("the link expands to more than {MAX_INFLATED_BYTES} bytes; refused"))
+            }
             S::NeedsMoreInput | S::FailedCannotMakeProgress => {
                 link_error(ErrorKind::Syntax, "the link is cut short (its compressed data ends early)")
             }
-            S::Adler32Mismatch => {
-                link_error(ErrorKind::Syntax, "the link is damaged (its checksum does not match)")
-            }
+            S::Adler32Mismatch => link_error(ErrorKind::Syntax, "the link is damaged (its checksum does not match)"),
             _ => link_error(ErrorKind::Syntax, "the link is damaged (its compressed data is invalid)"),
         }
     })?;
-    let value: Value = serde_json::from_slice(&json)
-        .map_err(|e| link_error(ErrorKind::Syntax, format!("the link holds no valid document: {e}")))?;
+    let value: Value =
+        serde_json::from_slice(&json).map_err(|e| link_error(ErrorKind::Syntax, format!("the link holds no valid document: {e}")))?;
     let doc = Document::from_value(expand(value))?;
     validate(&doc)?;
     Ok(doc)
@@ -205,12 +195,8 @@ pub fn decode(text: &str) -> Result<Document> {
 
 /// `c<version>.` -> payload; another version or no prefix is an error.
 fn strip_version(fragment: &str) -> Result<&str> {
-    let not_ours = || {
-        link_error(
-            ErrorKind::Syntax,
-            format!("not a chiroptic link (the part after '#' should start with \"c{LINK_VERSION}.\")"),
-        )
-    };
+    let not_ours =
+        || link_error(ErrorKind::Syntax, format!("not a chiroptic link (the part after '#' should start with \"c{LINK_VERSION}.\")"));
     let rest = fragment.strip_prefix('c').ok_or_else(not_ours)?;
     let (version, payload) = rest.split_once('.').ok_or_else(not_ours)?;
     if version.is_empty() || version.len() > 9 || !version.bytes().all(|b| b.is_ascii_digit()) {

@@ -181,12 +181,8 @@ impl View {
     /// The unit conversions that need sample data fail here, not mid-drawing.
     fn check_units(&self, model: &Model) -> Result<()> {
         let ctx = model.sample.context;
-        self.cd_unit
-            .from_delta_epsilon(1.0, 1.0, &ctx)
-            .map_err(|e| Error::new(ErrorKind::MissingField, "view.cd_unit", e.to_string()))?;
-        self.ord_unit
-            .from_degrees(1.0, 1.0, &ctx)
-            .map_err(|e| Error::new(ErrorKind::MissingField, "view.ord_unit", e.to_string()))?;
+        self.cd_unit.from_delta_epsilon(1.0, 1.0, &ctx).map_err(|e| Error::new(ErrorKind::MissingField, "view.cd_unit", e.to_string()))?;
+        self.ord_unit.from_degrees(1.0, 1.0, &ctx).map_err(|e| Error::new(ErrorKind::MissingField, "view.ord_unit", e.to_string()))?;
         Ok(())
     }
 

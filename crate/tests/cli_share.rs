@@ -40,12 +40,7 @@ fn link_then_open_gives_the_document_back() {
     assert_eq!(back, original);
 
     // The same through standard input.
-    let mut child = Command::new(BIN)
-        .args(["open", "-"])
-        .stdin(Stdio::piped())
-        .stdout(Stdio::piped())
-        .spawn()
-        .expect("spawns");
+    let mut child = Command::new(BIN).args(["open", "-"]).stdin(Stdio::piped()).stdout(Stdio::piped()).spawn().expect("spawns");
     child.stdin.take().expect("stdin").write_all(url.as_bytes()).expect("writes");
     let piped = child.wait_with_output().expect("finishes");
     assert!(piped.status.success());
@@ -70,7 +65,20 @@ fn render_writes_an_svg_file() {
     let dir = std::env::temp_dir().join(format!("chiroptic-render-{}", std::process::id()));
     std::fs::create_dir_all(&dir).expect("temp dir");
     let out = dir.join("cd.svg");
-    let o = run(&["render", DEMO, "--plot", "cd", "--unit", "mdeg", "--width", "640", "--height", "400", "-o", out.to_str().unwrap_or_default()]);
+    let o = run(&[
+        "render",
+        DEMO,
+        "--plot",
+        "cd",
+        "--unit",
+        "mdeg",
+        "--width",
+        "640",
+        "--height",
+        "400",
+        "-o",
+        out.to_str().unwrap_or_default(),
+    ]);
     assert!(o.status.success(), "{}", stderr(&o));
     let svg = std::fs::read_to_string(&out).expect("written");
     assert!(svg.starts_with("<svg width=\"640\" height=\"400\""));
@@ -90,9 +98,6 @@ fn render_refuses_bad_options() {
     assert_bad_input(&run(&["render", DEMO, "--plot", "cd", "--axis", "parsec", "-o", "-"]), "parsec");
     assert_bad_input(&run(&["render", DEMO, "--plot", "cd", "--from", "300", "-o", "-"]), "--to");
     assert_bad_input(&run(&["render", DEMO, "--plot", "cd", "--width", "5", "-o", "-"]), "--width");
-    assert_bad_input(
-        &run(&["render", DEMO, "--plot", "cd", "--unit", "mean_residue_ellipticity", "-o", "-"]),
-        "mean_residue_weight",
-    );
+    assert_bad_input(&run(&["render", DEMO, "--plot", "cd", "--unit", "mean_residue_ellipticity", "-o", "-"]), "mean_residue_weight");
     assert_bad_input(&run(&["render", "/nonexistent.json", "--plot", "cd", "-o", "-"]), "nonexistent");
 }

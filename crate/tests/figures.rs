@@ -21,10 +21,7 @@ fn spectra(model: &Model, from: f64, to: f64, points: usize, axis: AxisUnit) -> 
 fn texts(svg: &str) -> Vec<String> {
     let doc = roxmltree::Document::parse(svg).expect("the figure is well-formed XML");
     assert_eq!(doc.root_element().tag_name().name(), "svg");
-    doc.descendants()
-        .filter(|n| n.has_tag_name("text"))
-        .map(|n| n.text().unwrap_or_default().trim().to_string())
-        .collect()
+    doc.descendants().filter(|n| n.has_tag_name("text")).map(|n| n.text().unwrap_or_default().trim().to_string()).collect()
 }
 
 /// Point lists of the polylines drawn in `stroke` colour at least `width` wide
@@ -113,13 +110,7 @@ fn the_sum_is_drawn_where_the_frame_says_its_values_are() {
     let points: Vec<(f64, f64)> = sum.into_iter().flatten().collect();
     assert!(points.len() > 300, "{} points", points.len());
     // Largest De of the spectra against the highest point of the drawn curve.
-    let (i_max, de_max) = s
-        .delta_epsilon
-        .iter()
-        .enumerate()
-        .max_by(|a, b| a.1.total_cmp(b.1))
-        .map(|(i, v)| (i, *v))
-        .expect("values");
+    let (i_max, de_max) = s.delta_epsilon.iter().enumerate().max_by(|a, b| a.1.total_cmp(b.1)).map(|(i, v)| (i, *v)).expect("values");
     let top = points.iter().min_by(|a, b| a.1.total_cmp(&b.1)).copied().expect("points");
     let lambda = AxisUnit::Nanometre.from_wavenumber(s.wavenumber_cm1[i_max]);
     assert!((frame.x_at(top.0) - lambda).abs() < 1.0, "peak drawn at {} nm, is at {lambda}", frame.x_at(top.0));
@@ -209,10 +200,7 @@ fn dark_theme_and_pixel_ratio_change_colours_and_sizes() {
     assert!(out.contains(&format!("fill=\"{bg}\"")), "no {bg} background");
     let font_size = |svg: &str| -> f64 {
         let doc = roxmltree::Document::parse(svg).expect("xml");
-        doc.descendants()
-            .filter(|n| n.has_tag_name("text"))
-            .filter_map(|n| n.attribute("font-size")?.parse().ok())
-            .fold(0.0, f64::max)
+        doc.descendants().filter(|n| n.has_tag_name("text")).filter_map(|n| n.attribute("font-size")?.parse().ok()).fold(0.0, f64::max)
     };
     let one = font_size(&out);
     req.pixel_ratio = 2.0;

@@ -59,10 +59,7 @@ pub fn render(path: &Path, o: &RenderOptions, output: &Path, out: &mut Vec<u8>) 
         out.extend_from_slice(text.as_bytes());
         return Ok(());
     }
-    std::fs::write(output, text).map_err(|e| Failure {
-        code: 1,
-        message: format!("{}: cannot write: {e}", output.display()),
-    })
+    std::fs::write(output, text).map_err(|e| Failure { code: 1, message: format!("{}: cannot write: {e}", output.display()) })
 }
 
 /// The command line's choices over the document's view: --axis, --unit, --from/--to.
@@ -126,9 +123,10 @@ pub fn open(text: &str, out: &mut Vec<u8>) -> Result<(), Failure> {
         let mut buf = String::new();
         // One byte over the cap is enough to know the link is too long.
         let cap = link::MAX_LINK_CHARS as u64 + 1;
-        std::io::stdin().take(cap).read_to_string(&mut buf).map_err(|e| {
-            bad("standard input", ErrorKind::Io, format!("cannot read the link: {e}"))
-        })?;
+        std::io::stdin()
+            .take(cap)
+            .read_to_string(&mut buf)
+            .map_err(|e| bad("standard input", ErrorKind::Io, format!("cannot read the link: {e}")))?;
         buf
     } else {
         text.to_string()

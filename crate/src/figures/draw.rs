@@ -141,7 +141,13 @@ pub struct Placement<'t> {
 
 /// The traces: bands first (the highlighted one last), the sums on top.
 /// Returns whether any named trace went into the key.
-pub fn traces<DB: DrawingBackend>(chart: &mut Chart<'_, DB>, layout: &Layout, sums: &[Trace], bands: &[Trace], at: &Placement) -> Result<bool> {
+pub fn traces<DB: DrawingBackend>(
+    chart: &mut Chart<'_, DB>,
+    layout: &Layout,
+    sums: &[Trace],
+    bands: &[Trace],
+    at: &Placement,
+) -> Result<bool> {
     let mut order: Vec<&Trace> = bands.iter().collect();
     order.sort_by(|a, b| a.width.total_cmp(&b.width));
     order.extend(sums.iter());
@@ -188,7 +194,12 @@ pub fn frame<DB: DrawingBackend>(chart: &mut Chart<'_, DB>, layout: &Layout, the
 }
 
 /// The key, in the corner that hides the fewest drawn points.
-pub fn key<'a, DB: DrawingBackend + 'a>(chart: &mut Chart<'a, DB>, layout: &Layout, theme: &Theme, corner: SeriesLabelPosition) -> Result<()> {
+pub fn key<'a, DB: DrawingBackend + 'a>(
+    chart: &mut Chart<'a, DB>,
+    layout: &Layout,
+    theme: &Theme,
+    corner: SeriesLabelPosition,
+) -> Result<()> {
     chart
         .configure_series_labels()
         .position(corner)
@@ -226,8 +237,8 @@ pub fn key_corner(traces: &[&Trace], at: &Placement) -> SeriesLabelPosition {
             }
         }
     }
-    let corners = [SeriesLabelPosition::UpperRight, SeriesLabelPosition::UpperLeft, SeriesLabelPosition::LowerRight, SeriesLabelPosition::LowerLeft];
+    let corners =
+        [SeriesLabelPosition::UpperRight, SeriesLabelPosition::UpperLeft, SeriesLabelPosition::LowerRight, SeriesLabelPosition::LowerLeft];
     let best = (0..4).min_by_key(|i| counts[*i]).unwrap_or(0);
     corners.into_iter().nth(best).unwrap_or(SeriesLabelPosition::UpperRight)
 }
-

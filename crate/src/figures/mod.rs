@@ -269,15 +269,7 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, req: &PlotRequest
     }
 
     let (px, py) = chart.plotting_area().get_pixel_range();
-    Ok(PlotFrame {
-        left: px.start,
-        top: py.start,
-        right: px.end,
-        bottom: py.end,
-        x_range: req.x_range,
-        y_range,
-        y2_range,
-    })
+    Ok(PlotFrame { left: px.start, top: py.start, right: px.end, bottom: py.end, x_range: req.x_range, y_range, y2_range })
 }
 
 /// Backend pixels per SVG pixel in [`svg`].
@@ -325,11 +317,7 @@ pub fn readout(req: &PlotRequest, x: f64) -> Result<Readout> {
         .min_by(|a, b| (a.1 - x).abs().total_cmp(&(b.1 - x).abs()))
         .map(|(i, _)| i)
         .ok_or_else(|| range_error("there are no computed points"))?;
-    let values = sums
-        .iter()
-        .chain(&bands)
-        .map(|t| (t.name.clone(), t.values.get(index).copied().unwrap_or(f64::NAN)))
-        .collect();
+    let values = sums.iter().chain(&bands).map(|t| (t.name.clone(), t.values.get(index).copied().unwrap_or(f64::NAN))).collect();
     Ok(Readout { index, x: xs.get(index).copied().unwrap_or(f64::NAN), values })
 }
 
@@ -343,8 +331,7 @@ mod native_font {
     /// Registers DejaVu Sans as "sans-serif" for plotters' text layout.
     pub fn ensure() -> Result<()> {
         let ok = *REGISTERED.get_or_init(|| {
-            plotters::style::register_font("sans-serif", plotters::style::FontStyle::Normal, dejavu::sans::regular())
-                .is_ok()
+            plotters::style::register_font("sans-serif", plotters::style::FontStyle::Normal, dejavu::sans::regular()).is_ok()
         });
         if ok {
             Ok(())

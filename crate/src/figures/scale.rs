@@ -3,8 +3,8 @@
 //! axis's scale is computed once ([`AxisScale`]) and used by the mesh, the
 //! traces and the frame alike; the primary and secondary axes share the code.
 
-use super::unlerp;
 use super::traces::Trace;
+use super::unlerp;
 use plotters::coord::ranged1d::{DefaultFormatting, KeyPointHint};
 use plotters::prelude::Ranged;
 
@@ -94,11 +94,7 @@ pub fn zero_aligned(primary: (f64, f64), (a, b): (f64, f64)) -> (f64, f64) {
 
 /// Value range of the traces over the visible points, padded; `include` is
 /// forced in (zero for signed quantities).
-pub fn value_range<'t>(
-    traces: impl Iterator<Item = &'t Trace>,
-    visible: &[bool],
-    include: Option<f64>,
-) -> (f64, f64) {
+pub fn value_range<'t>(traces: impl Iterator<Item = &'t Trace>, visible: &[bool], include: Option<f64>) -> (f64, f64) {
     let mut lo = f64::INFINITY;
     let mut hi = f64::NEG_INFINITY;
     for t in traces {
@@ -133,11 +129,7 @@ pub fn ticks(lo: f64, hi: f64, target: usize) -> (Vec<f64>, f64) {
     let mag = 10f64.powf(raw.log10().floor());
     // The 1-2-5 step whose tick count is nearest the target (by ratio).
     let off = |s: f64| ((hi - lo) / s / target).ln().abs();
-    let step = [0.5, 1.0, 2.0, 5.0, 10.0]
-        .iter()
-        .map(|m| m * mag)
-        .min_by(|a, b| off(*a).total_cmp(&off(*b)))
-        .unwrap_or(mag);
+    let step = [0.5, 1.0, 2.0, 5.0, 10.0].iter().map(|m| m * mag).min_by(|a, b| off(*a).total_cmp(&off(*b))).unwrap_or(mag);
     let first = (lo / step).ceil() as i64;
     let last = (hi / step).floor() as i64;
     let ticks = (first..=last).take(100).map(|k| k as f64 * step).collect();
@@ -149,11 +141,8 @@ pub fn tick_label(v: f64, step: f64) -> String {
     let decimals = if step >= 1.0 { 0 } else { (-step.log10() - 1e-9).ceil().max(0.0) as usize };
     let text = format!("{:.*}", decimals, v);
     // "-0.0" and the like are zero.
-    let text = if text.trim_start_matches('-').chars().all(|c| c == '0' || c == '.') {
-        text.trim_start_matches('-').to_string()
-    } else {
-        text
-    };
+    let text =
+        if text.trim_start_matches('-').chars().all(|c| c == '0' || c == '.') { text.trim_start_matches('-').to_string() } else { text };
     text.replace('-', "\u{2212}")
 }
 
@@ -205,7 +194,6 @@ pub fn scaled_label(label: &str, exponent: i32) -> String {
         format!("{label} / {power}")
     }
 }
-
 
 #[cfg(test)]
 mod tests {

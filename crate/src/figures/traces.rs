@@ -109,7 +109,6 @@ pub fn segments(xs: &[f64], values: &[f64], visible: &[bool], x_sign: f64, y_sca
     out
 }
 
-
 /// One entry of a plot's key for the summed traces (bands are named by the
 /// band list, in their colours).
 #[derive(Debug, Clone, PartialEq)]

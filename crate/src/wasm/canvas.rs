@@ -130,8 +130,7 @@ impl DrawingBackend for FastCanvas {
             }
             // Should the canvas refuse, fall back to plotters' own measure.
             Err(_) => {
-                let ((x0, y0), (x1, y1)) =
-                    style.layout_box(text).map_err(|e| DrawingErrorKind::FontError(Box::new(e)))?;
+                let ((x0, y0), (x1, y1)) = style.layout_box(text).map_err(|e| DrawingErrorKind::FontError(Box::new(e)))?;
                 ((x1 - x0).max(0) as u32, (y1 - y0).max(0) as u32)
             }
         };

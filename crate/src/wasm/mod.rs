@@ -53,8 +53,8 @@ fn show_fatal(message: &str) {
 
 /// Reads a JS object as a document, with the core's field-naming errors.
 fn document_from_js(value: JsValue) -> Result<Document, Error> {
-    let json: serde_json::Value = serde_wasm_bindgen::from_value(value)
-        .map_err(|e| Error::new(ErrorKind::Syntax, "", format!("not a document: {e}")))?;
+    let json: serde_json::Value =
+        serde_wasm_bindgen::from_value(value).map_err(|e| Error::new(ErrorKind::Syntax, "", format!("not a document: {e}")))?;
     Document::from_value(json)
 }
 
@@ -196,4 +196,3 @@ pub fn convert_path(value: f64, from: &str, to: &str) -> JsValue {
     let factor = |key: &str| catalog::cm_per_path_unit(key).ok_or_else(|| unknown_unit("path length", key));
     reply_one("value", (|| Ok(value * factor(from)? / factor(to)?))())
 }
-

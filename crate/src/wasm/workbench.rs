@@ -50,7 +50,8 @@ struct FigureOptions {
 const MAX_PIXEL_RATIO: f64 = 8.0;
 
 fn plot_kind(key: &str) -> Result<PlotKind, Error> {
-    PlotKind::parse(key).ok_or_else(|| Error::new(ErrorKind::UnknownName, "plot", format!("unknown plot \"{key}\" (use cd, ord, abs or index)")))
+    PlotKind::parse(key)
+        .ok_or_else(|| Error::new(ErrorKind::UnknownName, "plot", format!("unknown plot \"{key}\" (use cd, ord, abs or index)")))
 }
 
 fn checked_ratio(r: f64) -> Result<f64, Error> {
@@ -86,7 +87,16 @@ struct FrameOut {
 }
 
 fn frame_out(kind: PlotKind, f: &PlotFrame) -> FrameOut {
-    FrameOut { plot: kind.key(), left: f.left, top: f.top, right: f.right, bottom: f.bottom, x_range: f.x_range, y_range: f.y_range, y2_range: f.y2_range }
+    FrameOut {
+        plot: kind.key(),
+        left: f.left,
+        top: f.top,
+        right: f.right,
+        bottom: f.bottom,
+        x_range: f.x_range,
+        y_range: f.y_range,
+        y2_range: f.y2_range,
+    }
 }
 
 #[derive(Serialize)]
@@ -269,8 +279,8 @@ impl Workbench {
 }
 
 fn figure_options(figure: JsValue) -> Result<FigureOptions, Error> {
-    let o: FigureOptions = serde_wasm_bindgen::from_value(figure)
-        .map_err(|e| Error::new(ErrorKind::Syntax, "figure", format!("not a figure size: {e}")))?;
+    let o: FigureOptions =
+        serde_wasm_bindgen::from_value(figure).map_err(|e| Error::new(ErrorKind::Syntax, "figure", format!("not a figure size: {e}")))?;
     if o.width == 0 || o.height == 0 {
         return Err(Error::new(ErrorKind::OutOfRange, "figure", "a figure needs a width and a height"));
     }
@@ -433,7 +443,7 @@ fn csv_header(cur: &Current, (from, to): (f64, f64), step: f64) -> String {
         out += &format!("# mean_residue_weight_g_per_mol: {}\n", number(m));
     }
     let unit = cur.view.axis.label();
-    out += &format!("# grid: {} to {} {unit} in steps of {} {unit}; units are in the column names\n", number(from), number(to), number(step));
+    out +=
+        &format!("# grid: {} to {} {unit} in steps of {} {unit}; units are in the column names\n", number(from), number(to), number(step));
     out
 }
-

@@ -178,17 +178,11 @@ fn parameters(doc: &Document, model: &Model, settings: &FitDoc, sets: &[DataSet]
         })?;
         out[k].mode = parameter_mode(doc, model, p, field, &at)?;
     }
-    if !has_absorption {
-        let mut fixed_any = false;
+    if !has_absorption && !doc.bands.is_empty() {
         for p in out.iter_mut().filter(|p| matches!(p.target, Target::Dipole(_))) {
-            if !matches!(p.mode, Mode::Fixed) {
-                fixed_any = true;
-            }
             p.mode = Mode::Fixed;
         }
-        if fixed_any {
-            warnings.push("D is not determined by CD and ORD alone (no absorption data): every dipole strength is held at its start value".into());
-        }
+        warnings.push("D is not determined by CD and ORD alone (no absorption data): every dipole strength is held at its start value".into());
     }
     // With D fixed, |g| = 4|R|/D <= 2 bounds R.
     let dipoles: Vec<(usize, f64, bool)> = out.iter().filter_map(|p| match p.target {

@@ -16,6 +16,7 @@ use std::io::Write;
 use std::path::{Path, PathBuf};
 
 /// The export and share verbs (render, link, open).
+mod fitting;
 mod measured;
 mod share;
 
@@ -111,6 +112,17 @@ enum Verb {
         #[command(flatten)]
         columns: ColumnArgs,
     },
+    /// Fit the start document's bands to measured files; writes the fitted
+    /// document and prints the report on standard error.
+    Fit {
+        start: PathBuf,
+        #[arg(required = true)]
+        data: Vec<PathBuf>,
+        #[command(flatten)]
+        options: FitArgs,
+        #[command(flatten)]
+        columns: ColumnArgs,
+    },
     /// Measured CD to ORD, or ORD to CD, by Kramers-Kronig.
     Kk {
         data: PathBuf,
@@ -132,6 +144,35 @@ enum Verb {
         #[arg(long)]
         lines: bool,
     },
+}
+
+/// The flags of `fit`.
+#[derive(clap::Args)]
+struct FitArgs {
+    /// Band fields free in the fit, comma-separated (centre, width, lorentz, R, D);
+    /// default centre,width,R.
+    #[arg(long)]
+    free: Option<String>,
+    /// Hold a parameter at its start value: BAND.FIELD (e.g. "B1.center_nm"); repeatable.
+    #[arg(long)]
+    fix: Vec<String>,
+    /// Local fits from this many starts (the given one and perturbed ones); default 8.
+    #[arg(long)]
+    starts: Option<u32>,
+    #[arg(long)]
+    max_iterations: Option<u32>,
+    /// Fit one energy shift of every band centre (cm-1).
+    #[arg(long)]
+    shift: bool,
+    /// Fit a baseline offset per data set.
+    #[arg(long)]
+    offsets: bool,
+    /// Fit a scale factor per data set.
+    #[arg(long)]
+    scales: bool,
+    /// The fitted document.
+    #[arg(short = 'o', long)]
+    output: PathBuf,
 }
 
 /// The flags that name a data file's columns where its header does not.
@@ -215,6 +256,23 @@ pub fn run<I: IntoIterator<Item = OsString>>(args: I) -> i32 {
             for n in notes {
                 eprintln!("chiroptic: {}: {n}", file.display());
             }
+            result
+        }
+        Verb::Fit { start, data, options, columns } => {
+            let o = fitting::FitOptions {
+                data: &data,
+                free: options.free,
+                fix: &options.fix,
+                starts: options.starts,
+                max_iterations: options.max_iterations,
+                shift: options.shift,
+                offsets: options.offsets,
+                scales: options.scales,
+                output: &options.output,
+            };
+            let mut report = String::new();
+            let result = fitting::run(&start, &columns.flags(), &o, &mut report);
+            eprint!("{report}");
             result
         }
         Verb::Kk { data, columns, add, from, to, step, unit, lines } => {

@@ -265,3 +265,31 @@ fn import_reads_jcamp_dx_with_its_units() {
     assert_eq!(csv.lines().next().unwrap(), "wavenumber_cm1,TRANSMITTANCE");
     assert_bad_input(&chiroptic(&["import", &fixture("good/bom-crlf.csv"), "--block", "2"]), &["JCAMP-DX"]);
 }
+
+fn fit_fixture(name: &str) -> String {
+    format!("{}/../fixtures/fit/{name}", env!("CARGO_MANIFEST_DIR"))
+}
+
+#[test]
+fn fit_writes_the_fitted_document_and_prints_the_report() {
+    // The invented three-band problem of fixtures/fit (made by make_fit_reference.py).
+    let dir = std::env::temp_dir().join(format!("chiroptic-fit-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let out_path = dir.join("fitted.json");
+    let out = chiroptic(&["fit", &fit_fixture("start.json"), &fit_fixture("cd.csv"), &fit_fixture("ord.csv"), "-o", out_path.to_str().unwrap()]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let report = String::from_utf8_lossy(&out.stderr);
+    for part in ["B2.center_nm", "± ", "reduced", "AIC", "BIC", "D is not determined"] {
+        assert!(report.contains(part), "report lacks {part}: {report}");
+    }
+    // The fitted document is a document the page and the CLI read, band names kept.
+    let fitted = std::fs::read_to_string(&out_path).unwrap();
+    let doc = chiroptic::Document::from_json(&fitted).expect("fitted document reads");
+    assert_eq!(doc.bands.iter().map(|b| b.name.as_str()).collect::<Vec<_>>(), ["B1", "B2", "B3"]);
+    assert!((doc.bands[1].center_nm - 262.0).abs() < 0.05, "truth.json has 262 nm: {}", doc.bands[1].center_nm);
+    assert!(chiroptic(&["lines", out_path.to_str().unwrap()]).status.success());
+
+    assert_bad_input(&chiroptic(&["fit", &fit_fixture("start.json"), &fit_fixture("cd.csv"), "--free", "centre,colour", "-o", out_path.to_str().unwrap()]), &["--free", "colour"]);
+    assert_bad_input(&chiroptic(&["fit", &fit_fixture("start.json"), &fit_fixture("cd.csv"), "--fix", "B9.center_nm", "-o", out_path.to_str().unwrap()]), &["no band named \"B9\""]);
+    assert_bad_input(&chiroptic(&["fit", &fit_fixture("start.json"), "/nonexistent.csv", "-o", out_path.to_str().unwrap()]), &["/nonexistent.csv"]);
+}

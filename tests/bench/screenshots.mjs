@@ -17,6 +17,7 @@ try {
     ["wide-light", { width: 1280, height: 800 }],
     ["wide-dark", { width: 1280, height: 800, colorScheme: "dark" }],
     ["narrow-light", { width: 800, height: 1000 }],
+    ["narrow-dark", { width: 800, height: 1000, colorScheme: "dark" }],
   ];
   for (const [name, opts] of shots) {
     const { page, context, log } = await openPage(env, opts);
@@ -24,6 +25,10 @@ try {
     const box = await page.locator(".plot[data-plot=cd] .canvas-box").boundingBox();
     await page.mouse.move(box.x + box.width * 0.45, box.y + box.height * 0.5);
     await page.screenshot({ path: join(out, `${name}.png`) });
+    // A sign-convention note open (it must wrap inside the window).
+    await page.hover('.plot[data-plot="ord"] .hint');
+    await page.screenshot({ path: join(out, `${name}-note.png`) });
+    await page.mouse.move(0, 0);
     if (name === "wide-light") {
       await page.screenshot({ path: join(out, `${name}-full.png`), fullPage: true });
       await page.fill("#band-1-width", "-5");
@@ -37,6 +42,9 @@ try {
       await page.screenshot({ path: join(out, "export-menu.png") });
       await page.click("#share-menu summary");
       await page.screenshot({ path: join(out, "share-menu.png") });
+      await page.click("#help-menu summary");
+      await page.screenshot({ path: join(out, "help.png") });
+      await page.click("#share-menu summary");
       const link = await page.inputValue("#link-text");
       await page.keyboard.press("Escape");
       // The same model with a damaged link: the message, the model kept.

@@ -74,6 +74,8 @@ function syncSize() {
   const preset = $("export-preset").value;
   const custom = preset !== "screen";
   for (const id of ["export-width", "export-height", "export-font"]) $(id).disabled = !custom;
+  // The size fields only show when they apply.
+  document.querySelectorAll(".export-size-grid .custom-only").forEach((node) => (node.hidden = !custom));
   if (PRESETS[preset]) {
     $("export-width").value = String(PRESETS[preset].width);
     $("export-height").value = String(PRESETS[preset].height);

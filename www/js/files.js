@@ -53,7 +53,7 @@ export function fillCsvSteps() {
   const keep = select.dataset.axis === axis ? select.value : null;
   select.replaceChildren(...unit.csv_steps.map((s) => el("option", { value: String(s), textContent: `${s} ${unit.label}` })));
   select.dataset.axis = axis;
-  select.value = keep ?? String(unit.csv_steps[Math.min(1, unit.csv_steps.length - 1)]);
+  select.value = keep ?? String(unit.csv_step);
 }
 
 export function bindFiles() {

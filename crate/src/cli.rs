@@ -19,6 +19,8 @@ use std::path::{Path, PathBuf};
 mod fitting;
 mod measured;
 mod share;
+/// What the eye sees between polarisers.
+mod colour;
 
 #[derive(Parser)]
 #[command(name = "chiroptic", version, about = "Chiral band models: CD and ORD from n_L and n_R")]
@@ -123,6 +125,9 @@ enum Verb {
         #[command(flatten)]
         columns: ColumnArgs,
     },
+    /// The colour seen through the sample between polarisers: end-on, over
+    /// analyser angles, or the tube from the side (single scattering only).
+    Colour(colour::ColourArgs),
     /// Measured CD to ORD, or ORD to CD, by Kramers-Kronig.
     Kk {
         data: PathBuf,
@@ -275,6 +280,7 @@ pub fn run<I: IntoIterator<Item = OsString>>(args: I) -> i32 {
             eprint!("{report}");
             result
         }
+        Verb::Colour(args) => colour::run(&args, &mut out),
         Verb::Kk { data, columns, add, from, to, step, unit, lines } => {
             let options = measured::KkOptions { add: add.as_deref(), from, to, step, unit: &unit, lines };
             measured::kk(&data, &columns.flags(), &options, &mut out)

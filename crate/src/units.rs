@@ -15,6 +15,8 @@ pub const LIGHT_CM_PER_S: f64 = 2.997_924_58e10;
 pub const AVOGADRO_PER_MOL: f64 = 6.022_140_76e23;
 /// Electron volt, erg (exact).
 pub const ELECTRON_VOLT_ERG: f64 = 1.602_176_634e-12;
+/// Boltzmann constant, erg/K (exact; Planck's law of the incandescent source).
+pub const BOLTZMANN_ERG_PER_K: f64 = 1.380_649e-16;
 
 /// cm^3 per litre: concentrations are mol/L, CGS volumes are cm^3.
 pub const CM3_PER_LITRE: f64 = 1000.0;

@@ -10,6 +10,7 @@
 
 mod canvas;
 mod catalog;
+mod colour;
 mod reply;
 mod workbench;
 

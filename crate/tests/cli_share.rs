@@ -101,3 +101,18 @@ fn render_refuses_bad_options() {
     assert_bad_input(&run(&["render", DEMO, "--plot", "cd", "--unit", "mean_residue_ellipticity", "-o", "-"]), "mean_residue_weight");
     assert_bad_input(&run(&["render", "/nonexistent.json", "--plot", "cd", "-o", "-"]), "nonexistent");
 }
+
+#[test]
+fn render_refuses_a_bad_view_as_link_does() {
+    // The same document through both verbs: one view check (view::check).
+    let dir = std::env::temp_dir().join(format!("chiroptic-badview-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).expect("temp dir");
+    let path = dir.join("bad-view.json");
+    let mut doc: serde_json::Value = serde_json::from_str(&std::fs::read_to_string(DEMO).expect("demo")).expect("demo parses");
+    doc["view"] = serde_json::json!({ "cd_unit": "xyz" });
+    std::fs::write(&path, doc.to_string()).expect("written");
+    let file = path.to_str().unwrap_or_default();
+    assert_bad_input(&run(&["render", file, "--plot", "cd", "-o", "-"]), "view.cd_unit");
+    assert_bad_input(&run(&["link", file]), "view.cd_unit");
+    let _ = std::fs::remove_dir_all(&dir);
+}

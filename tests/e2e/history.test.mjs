@@ -120,6 +120,9 @@ test("a corrupt autosave is reported, set aside and ignored", async () => {
   ]) {
     const { page, context, log } = await openPage(env);
     try {
+      // The page autosaves what it opened a moment after loading: set the
+      // corrupt text after that, or the page would overwrite it.
+      await page.waitForFunction(() => localStorage.getItem("chiroptic.autosave") !== null);
       await page.evaluate((t) => localStorage.setItem("chiroptic.autosave", t), text);
       await page.goto(`${env.origin}/`);
       await page.waitForSelector("html[data-ready=true]", { state: "attached" });

@@ -172,7 +172,7 @@ export function renderBands() {
 
 /** Names the row's buttons after the band, so they read well when renamed. */
 function labelActions(tr, band, i) {
-  const who = `band ${i + 1} (${band.name || `B${i + 1}`})`;
+  const who = `band ${i + 1} (${core.bandName(band, i)})`;
   tr.querySelectorAll("button[data-verb]").forEach((b) => b.setAttribute("aria-label", b.dataset.verb.replace("{}", who)));
 }
 
@@ -194,7 +194,7 @@ function moveBand(i, by, which) {
 
 function duplicateBand(i) {
   const copy = structuredClone(state.doc.bands[i]);
-  copy.name = `${copy.name || `B${i + 1}`} copy`;
+  copy.name = `${core.bandName(copy, i)} copy`;
   state.doc.bands.splice(i + 1, 0, copy);
   renderBands();
   edit();

@@ -22,14 +22,17 @@ function inlinedWasm() {
   return { module_or_path: bytes };
 }
 
-/** Loads the module and takes the four plot canvases. */
-export async function start(canvases) {
+/** Loads the module; `canvasOf(key)` gives the canvas of each plot the catalog names. */
+export async function start(canvasOf) {
   await init(inlinedWasm());
   const c = wasm.catalog();
   if (!c.ok) throw new Error(`the core's catalog does not load: ${c.error.message}`);
   catalog = c;
-  workbench = new wasm.Workbench(...canvases);
+  workbench = new wasm.Workbench(...catalog.plots.map((p) => canvasOf(p.key)));
 }
+
+/** The name the model gives band i when it has none (B1, B2, ...). */
+export const bandName = (band, i) => band?.name || `${catalog.band_name_prefix}${i + 1}`;
 
 /** Runs a call into the module; a trap there stops every later call. */
 function call(fn) {

@@ -20,7 +20,7 @@ import { startWiki } from "./wiki.js";
 import { bindTheme, bindMenus, renderConventions } from "./chrome.js";
 
 async function main() {
-  await core.start(["cd", "ord", "abs", "index"].map((k) => $(`plot-${k}`)));
+  await core.start((key) => $(`plot-${key}`));
   const demo = core.demoDocument();
   if (!demo.ok) throw new Error(`the built-in demo does not load: ${demo.error.message}`);
   // Read-only, for tests and scripts: the document (a copy) and the text each canvas shows.

@@ -7,6 +7,7 @@
 import { $ } from "./dom.js";
 import { state } from "./state.js";
 import { allFields } from "./fields.js";
+import * as core from "./core.js";
 
 /** The error slot of a control: the element its aria-describedby names. */
 function slotOf(control) {
@@ -58,7 +59,7 @@ function humanMessage(err, control) {
   const band = /^bands\[(\d+)\]/.exec(err.field ?? "");
   if (band) {
     const i = Number(band[1]);
-    const name = state.doc.bands[i]?.name || `B${i + 1}`;
+    const name = core.bandName(state.doc.bands[i], i);
     text = `band ${i + 1} (${name}): ${text}`;
   }
   return text.charAt(0).toUpperCase() + text.slice(1);

@@ -98,5 +98,5 @@ export function releasePeak(px, py) {
   closeStep();
   noted();
   const b = state.doc.bands[i];
-  if (b) sayDone(`Band ${i + 1} (${b.name || `B${i + 1}`}): centre ${fmtText(b.center_nm, 5)} nm, R ${fmtText(b.rotatory_strength_1e40_cgs)}`);
+  if (b) sayDone(`Band ${i + 1} (${core.bandName(b, i)}): centre ${fmtText(b.center_nm, 5)} nm, R ${fmtText(b.rotatory_strength_1e40_cgs)}`);
 }

@@ -421,9 +421,14 @@ impl Workbench {
     }
 }
 
-/// Rounds away the binary noise of k × step (0.1 × 3 and the like).
+/// Rounds away the binary noise of k × step (0.1 × 3 and the like): 12
+/// significant digits.
 fn tidy(v: f64) -> f64 {
-    format!("{v:.12e}").parse().unwrap_or(v)
+    if v == 0.0 || !v.is_finite() {
+        return v;
+    }
+    let scale = 10f64.powi(11 - v.abs().log10().floor() as i32);
+    (v * scale).round() / scale
 }
 
 /// The CSV's header block: lines starting with `#`, then the table.

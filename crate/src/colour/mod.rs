@@ -56,9 +56,9 @@ impl Colour {
         let sum = xyz[0] + xyz[1] + xyz[2];
         let xy = if sum > 0.0 { [xyz[0] / sum, xyz[1] / sum] } else { [f64::NAN; 2] };
         let srgb_linear = srgb::linear_from_xyz(xyz);
-        // A hair of tolerance: D65 white itself comes out 1 +- 1e-4 through
-        // the standard's rounded matrix.
-        let clipped = srgb_linear.iter().any(|v| !(-1e-4..=1.0 + 1e-4).contains(v));
+        // Tolerance below half an 8-bit step: D65 white itself comes out
+        // 1 +- 2e-4 through the standard's four-digit matrix.
+        let clipped = srgb_linear.iter().any(|v| !(-1e-3..=1.0 + 1e-3).contains(v));
         let srgb = srgb_linear.map(|v| srgb::encode(srgb::clip(v)));
         Colour { xyz, xy, srgb_linear, srgb, srgb_8bit: srgb.map(srgb::to_byte), clipped }
     }

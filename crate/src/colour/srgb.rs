@@ -42,3 +42,38 @@ pub fn clip(v: f64) -> f64 {
 pub fn to_byte(v: f64) -> u8 {
     (v * 255.0).round().clamp(0.0, 255.0) as u8
 }
+
+/// Linear values to 8-bit codes for whole pictures, without a power per
+/// pixel: the 255 linear thresholds where the code steps up (the inverse
+/// transfer function at the half steps), searched by bisection. Gives the
+/// same codes as `to_byte(encode(clip(v)))`.
+pub struct ByteEncoder {
+    thresholds: [f64; 255],
+}
+
+impl ByteEncoder {
+    pub fn new() -> ByteEncoder {
+        ByteEncoder { thresholds: std::array::from_fn(|k| decode((k as f64 + 0.5) / 255.0)) }
+    }
+
+    pub fn byte(&self, v: f64) -> u8 {
+        let v = clip(v);
+        // The number of thresholds at or below v is the code.
+        self.thresholds.partition_point(|t| *t <= v) as u8
+    }
+}
+
+impl Default for ByteEncoder {
+    fn default() -> Self {
+        ByteEncoder::new()
+    }
+}
+
+/// The inverse transfer function (IEC 61966-2-1 equation (F.5)).
+pub fn decode(e: f64) -> f64 {
+    if e <= 0.040_45 {
+        e / 12.92
+    } else {
+        ((e + 0.055) / 1.055).powf(2.4)
+    }
+}

@@ -76,6 +76,9 @@ pub fn minimise(problem: &dyn Problem, u0: &[f64], max_iterations: usize, progre
     }
     let mut lambda = -1.0;
     let mut grow = 2.0;
+    // Two accepted steps in a row that barely lower chi-square mean a
+    // minimum; one alone may be a heavily damped step.
+    let mut small_steps = 0;
     let mut trial = Vec::new();
     for iteration in 1..=max_iterations {
         let m = r.len();
@@ -105,7 +108,8 @@ pub fn minimise(problem: &dyn Problem, u0: &[f64], max_iterations: usize, progre
             return Outcome { u, chi_square: chi, iterations: iteration - 1, stop: Stop::Gradient };
         }
         if lambda < 0.0 {
-            lambda = 1e-3 * (0..n).map(|p| a[p * n + p]).fold(0.0_f64, f64::max);
+            // Dimensionless: the damping is lambda times the diagonal of J^T J.
+            lambda = 1e-3;
         }
         let scale: Vec<f64> = (0..n).map(|p| a[p * n + p].max(1e-30)).collect();
         let mut accepted = false;
@@ -133,14 +137,25 @@ pub fn minimise(problem: &dyn Problem, u0: &[f64], max_iterations: usize, progre
                 u = candidate;
                 problem.jacobian(&u, &mut r, &mut jac);
                 chi = sum_sq(&r);
-                lambda *= (1.0 / 3.0_f64).max(1.0 - (2.0 * rho - 1.0).powi(3));
+                // A step the quadratic model predicted well earns less
+                // damping at once (Marquardt's factor 10), a poor one more.
+                if rho > 0.75 {
+                    lambda /= 10.0;
+                } else if rho < 0.25 {
+                    lambda *= 2.0;
+                }
                 grow = 2.0;
                 accepted = true;
                 if !progress(iteration, chi) {
                     return Outcome { u, chi_square: chi, iterations: iteration, stop: Stop::Cancelled };
                 }
                 if (old - chi) <= RELATIVE_TOLERANCE * old {
-                    return Outcome { u, chi_square: chi, iterations: iteration, stop: Stop::Converged };
+                    small_steps += 1;
+                    if small_steps >= 2 {
+                        return Outcome { u, chi_square: chi, iterations: iteration, stop: Stop::Converged };
+                    }
+                } else {
+                    small_steps = 0;
                 }
                 break;
             }

@@ -43,9 +43,23 @@ pub struct FitProblem {
     /// The band shapes' kinds (0 Lorentz, 1 Gaussian, 2 Voigt), per band.
     kinds: Vec<u8>,
     points: Vec<Point>,
-    /// Index of each target's parameter, for quick lookup.
-    index: std::collections::HashMap<Target, usize>,
+    /// Each band's parameter indices, looked up once (the inner loops run
+    /// per point and band).
+    bands: Vec<BandColumns>,
+    shift: Option<usize>,
+    /// Per set: (offset, scale) parameter indices.
+    set_columns: Vec<(Option<usize>, Option<usize>)>,
     pub set_count: usize,
+}
+
+/// Which parameter sets each field of a band.
+#[derive(Debug, Clone, Copy, PartialEq)]
+struct BandColumns {
+    center: Option<usize>,
+    fwhm: Option<usize>,
+    lorentz: Option<usize>,
+    rotatory: Option<usize>,
+    dipole: Option<usize>,
 }
 
 /// Observations from measured sets and lamp-line readings.
@@ -83,9 +97,20 @@ impl FitProblem {
                 * units::ESU2_CM2_PER_ROTATORY_UNIT;
             points.push(Point { set: reading_set, nu: *nu, factor, part: Part::ChiralRe, y: *phi, weight: *w });
         }
-        let index = layout.parameters.iter().enumerate().map(|(i, p)| (p.target, i)).collect();
+        let index: std::collections::HashMap<Target, usize> = layout.parameters.iter().enumerate().map(|(i, p)| (p.target, i)).collect();
+        let bands = (0..model.bands.len())
+            .map(|b| BandColumns {
+                center: index.get(&Target::Center(b)).copied(),
+                fwhm: index.get(&Target::Fwhm(b)).copied(),
+                lorentz: index.get(&Target::LorentzFwhm(b)).copied(),
+                rotatory: index.get(&Target::Rotatory(b)).copied(),
+                dipole: index.get(&Target::Dipole(b)).copied(),
+            })
+            .collect();
         let set_count = obs.sets.len() + usize::from(!obs.readings.is_empty());
-        Ok(FitProblem { layout, kinds, points, index, set_count })
+        let set_columns = (0..set_count).map(|s| (index.get(&Target::Offset(s)).copied(), index.get(&Target::Scale(s)).copied())).collect();
+        let shift = index.get(&Target::Shift).copied();
+        Ok(FitProblem { layout, kinds, points, bands, shift, set_columns, set_count })
     }
 
     pub fn len(&self) -> usize {
@@ -101,19 +126,21 @@ impl FitProblem {
         self.points.iter().map(|p| p.set).collect()
     }
 
-    fn value(&self, values: &[f64], t: Target, default: f64) -> f64 {
-        self.index.get(&t).map(|i| values[*i]).unwrap_or(default)
-    }
-
     fn shape(&self, values: &[f64], band: usize) -> Lineshape {
-        let shift = self.value(values, Target::Shift, 0.0);
-        let center = self.value(values, Target::Center(band), f64::NAN) + shift;
-        let fwhm = self.value(values, Target::Fwhm(band), f64::NAN);
+        let at = |c: Option<usize>, default: f64| c.map(|i| values[i]).unwrap_or(default);
+        let cols = &self.bands[band];
+        let center = at(cols.center, f64::NAN) + at(self.shift, 0.0);
+        let fwhm = at(cols.fwhm, f64::NAN);
         match self.kinds[band] {
             0 => Lineshape::lorentz(center, fwhm),
             1 => Lineshape::gaussian(center, fwhm),
-            _ => Lineshape::voigt(center, fwhm, self.value(values, Target::LorentzFwhm(band), 0.0)),
+            _ => Lineshape::voigt(center, fwhm, at(cols.lorentz, 0.0)),
         }
+    }
+
+    fn offset_scale(&self, values: &[f64], set: usize) -> (f64, f64) {
+        let (o, k) = self.set_columns[set];
+        (o.map(|i| values[i]).unwrap_or(0.0), k.map(|i| values[i]).unwrap_or(1.0))
     }
 
     /// Model values (in each set's unit) at every point, for the values v.
@@ -127,16 +154,21 @@ impl FitProblem {
                     let s = shape.value(p.nu);
                     sum += self.strength(values, b, p.part) * part_of(s, p.part);
                 }
-                self.value(values, Target::Scale(p.set), 1.0) * p.factor * sum + self.value(values, Target::Offset(p.set), 0.0)
+                let (offset, scale) = self.offset_scale(values, p.set);
+                scale * p.factor * sum + offset
             })
             .collect()
     }
 
-    fn strength(&self, values: &[f64], band: usize, part: Part) -> f64 {
+    fn strength_column(&self, band: usize, part: Part) -> Option<usize> {
         match part {
-            Part::ChiralIm | Part::ChiralRe => self.value(values, Target::Rotatory(band), 0.0),
-            Part::MeanIm => self.value(values, Target::Dipole(band), 0.0),
+            Part::ChiralIm | Part::ChiralRe => self.bands[band].rotatory,
+            Part::MeanIm => self.bands[band].dipole,
         }
+    }
+
+    fn strength(&self, values: &[f64], band: usize, part: Part) -> f64 {
+        self.strength_column(band, part).map(|i| values[i]).unwrap_or(0.0)
     }
 
     /// Residuals and the Jacobian with respect to the model's values
@@ -151,8 +183,7 @@ impl FitProblem {
             j.resize(self.points.len() * np, 0.0);
         }
         for (i, p) in self.points.iter().enumerate() {
-            let scale = self.value(values, Target::Scale(p.set), 1.0);
-            let offset = self.value(values, Target::Offset(p.set), 0.0);
+            let (offset, scale) = self.offset_scale(values, p.set);
             let mut sum = 0.0;
             match jv.as_deref_mut() {
                 None => {
@@ -168,27 +199,25 @@ impl FitProblem {
                         let strength = self.strength(values, b, p.part);
                         let part = part_of(d.value, p.part);
                         sum += strength * part;
-                        let strength_target = match p.part {
-                            Part::MeanIm => Target::Dipole(b),
-                            _ => Target::Rotatory(b),
-                        };
-                        let mut put = |t: Target, v: f64| {
-                            if let Some(col) = self.index.get(&t) {
-                                row[*col] += k * v;
+                        let cols = self.bands[b];
+                        let mut put = |c: Option<usize>, v: f64| {
+                            if let Some(col) = c {
+                                row[col] += k * v;
                             }
                         };
-                        put(strength_target, part);
+                        put(self.strength_column(b, p.part), part);
                         let dc = strength * part_of(d.d_center, p.part);
-                        put(Target::Center(b), dc);
-                        put(Target::Shift, dc);
-                        put(Target::Fwhm(b), strength * part_of(d.d_fwhm, p.part));
-                        put(Target::LorentzFwhm(b), strength * part_of(d.d_lorentz_fwhm, p.part));
+                        put(cols.center, dc);
+                        put(self.shift, dc);
+                        put(cols.fwhm, strength * part_of(d.d_fwhm, p.part));
+                        put(cols.lorentz, strength * part_of(d.d_lorentz_fwhm, p.part));
                     }
-                    if let Some(col) = self.index.get(&Target::Scale(p.set)) {
-                        row[*col] = p.weight * p.factor * sum;
+                    let (o, sc) = self.set_columns[p.set];
+                    if let Some(col) = sc {
+                        row[col] = p.weight * p.factor * sum;
                     }
-                    if let Some(col) = self.index.get(&Target::Offset(p.set)) {
-                        row[*col] = p.weight;
+                    if let Some(col) = o {
+                        row[col] = p.weight;
                     }
                 }
             }

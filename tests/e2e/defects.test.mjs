@@ -179,6 +179,53 @@ test("7: exports take a size and a font size", async () => {
   }
 });
 
+test("8: subscripts are typeset everywhere, and the longest CD unit fits its menu", async () => {
+  const { page, context } = await openPage(env);
+  try {
+    for (const key of ["cd", "ord", "abs", "index"]) {
+      const texts = await page.evaluate((k) => window.chiroptic.drawnText(k), key);
+      assert.deepEqual(texts.filter((t) => t.includes("_")), [], `${key}: no "_" on the canvas`);
+    }
+    const box = await page.locator('.plot[data-plot="index"] .canvas-box').boundingBox();
+    await page.mouse.move(box.x + box.width / 2, box.y + box.height / 2);
+    const words = [await page.textContent("#readout"), await page.textContent("#conventions-list")];
+    for (const id of ["hint-cd", "hint-ord", "hint-abs", "hint-index"]) words.push(await page.textContent(`#${id}`));
+    for (const w of words) assert.doesNotMatch(w, /[nεA]_[LR]/, w.slice(0, 60));
+    assert.match(await page.textContent("#hint-cd"), /εₗ − εᵣ/);
+    // The mean residue ellipticity needs its weight; then its label shows whole.
+    await typeInto(page, "#mrw", "110", { enter: false });
+    await page.selectOption("#cd-unit", "mean_residue_ellipticity");
+    const [text, room] = await page.$eval("#cd-unit", (sel) => {
+      const ctx = document.createElement("canvas").getContext("2d");
+      ctx.font = getComputedStyle(sel).font;
+      return [ctx.measureText(sel.options[sel.selectedIndex].text).width, sel.clientWidth - 24];
+    });
+    assert.ok(text <= room, `"[θ]MRW / deg cm² dmol⁻¹" fits: ${text.toFixed(0)} px of ${room} px`);
+  } finally {
+    await context.close();
+  }
+});
+
+test("9: the Indices plot shows the bands' index and Δn on their own axes, with a key", async () => {
+  const { page, context } = await openPage(env);
+  try {
+    const texts = await page.evaluate(() => window.chiroptic.drawnText("index"));
+    assert.ok(texts.some((t) => t.startsWith("n̄ − n(solvent)")), `left axis: ${texts}`);
+    assert.ok(texts.some((t) => t.startsWith("Δn / 10")), `right axis: ${texts}`);
+    const key = await page.$$eval("#key-index .key-item", (items) => items.map((i) => i.textContent));
+    assert.deepEqual(key, ["n̄ − n(solvent)", "Δn (right)"]);
+    const frame = (await page.evaluate(() => window.chiroptic.frames())).find((f) => f.plot === "index");
+    // One zero line for both axes: zero at the same height on each.
+    const at = ([a, b]) => -a / (b - a);
+    assert.ok(Math.abs(at(frame.y_range) - at(frame.y2_range)) < 1e-9, `zero at ${at(frame.y_range)} and ${at(frame.y2_range)}`);
+    for (const plot of ["cd", "ord", "abs"]) {
+      assert.deepEqual(await page.$$eval(`#key-${plot} .key-item`, (items) => items.map((i) => i.textContent)), ["sum"]);
+    }
+  } finally {
+    await context.close();
+  }
+});
+
 test("10: Frame bands, double-click and 0 frame the bands, not a fixed span", async () => {
   const { page, context } = await openPage(env);
   try {

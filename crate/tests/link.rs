@@ -64,7 +64,7 @@ fn ten_bands(full_precision_widths: bool) -> Document {
     Document {
         data: Vec::new(),
         readings: Vec::new(),
-            fit: None,
+        fit: None,
         chiroptic: 1,
         title: "INVENTED ten-band model".into(),
         sample: SampleDoc {
@@ -179,19 +179,14 @@ fn a_megabyte_fragment_is_refused_by_its_length() {
 
 /// Any finite double, including -0.0, subnormals and extremes.
 fn any_finite() -> impl Strategy<Value = f64> {
-    prop_oneof![
-        proptest::num::f64::NORMAL | proptest::num::f64::SUBNORMAL | proptest::num::f64::ZERO,
-        -1e3..1e3f64,
-    ]
+    prop_oneof![proptest::num::f64::NORMAL | proptest::num::f64::SUBNORMAL | proptest::num::f64::ZERO, -1e3..1e3f64,]
 }
 
 fn solvent() -> impl Strategy<Value = SolventDoc> {
     prop_oneof![
         (1.0..4.0f64).prop_map(|n| SolventDoc { constant: Some(n), ..SolventDoc::default() }),
-        (1e-3..3.0f64, any_finite(), any_finite()).prop_map(|(a, b_um2, c_um4)| SolventDoc {
-            cauchy: Some(CauchyDoc { a, b_um2, c_um4 }),
-            ..SolventDoc::default()
-        }),
+        (1e-3..3.0f64, any_finite(), any_finite())
+            .prop_map(|(a, b_um2, c_um4)| SolventDoc { cauchy: Some(CauchyDoc { a, b_um2, c_um4 }), ..SolventDoc::default() }),
         Just(SolventDoc { sellmeier: Some(SellmeierDoc::Preset("water-20c".into())), ..SolventDoc::default() }),
         prop::collection::vec((any_finite(), any_finite()), 1..5).prop_map(|terms| SolventDoc {
             sellmeier: Some(SellmeierDoc::Coefficients {

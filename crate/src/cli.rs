@@ -17,6 +17,7 @@ use std::path::{Path, PathBuf};
 
 /// The export and share verbs (render, link, open).
 mod fitting;
+mod states;
 mod measured;
 mod share;
 /// What the eye sees between polarisers.
@@ -128,6 +129,48 @@ enum Verb {
     /// The colour seen through the sample between polarisers: end-on, over
     /// analyser angles, or the tube from the side (single scattering only).
     Colour(colour::ColourArgs),
+    /// Transition lists of computed excited states to a document of broadened bands.
+    States {
+        #[arg(required = true)]
+        files: Vec<PathBuf>,
+        /// Temperature of the Boltzmann populations, K (default 298.15).
+        #[arg(long)]
+        temperature: Option<f64>,
+        /// Band width as FWHM, eV (default 0.3).
+        #[arg(long)]
+        fwhm_ev: Option<f64>,
+        /// Band width as the Gaussian sigma, eV.
+        #[arg(long)]
+        sigma_ev: Option<f64>,
+        /// Added to every excitation energy, eV.
+        #[arg(long, default_value_t = 0.0, allow_negative_numbers = true)]
+        shift_ev: f64,
+        #[arg(long, default_value = "gaussian")]
+        shape: String,
+        /// Use the velocity-form rotatory strengths (default: length form).
+        #[arg(long)]
+        velocity: bool,
+        /// The concentration of the document's sample, mol/L.
+        #[arg(long, default_value_t = 0.001)]
+        concentration: f64,
+        #[arg(short = 'o', long)]
+        output: PathBuf,
+    },
+    /// Similarity of a document's CD, and of its mirror image, to measured CD.
+    Compare {
+        doc: PathBuf,
+        data: PathBuf,
+        /// The range compared, nm.
+        #[arg(long)]
+        from: Option<f64>,
+        #[arg(long)]
+        to: Option<f64>,
+        /// The computed configuration's name in the verdict (e.g. R or S).
+        #[arg(long, default_value = "")]
+        label: String,
+        #[command(flatten)]
+        columns: ColumnArgs,
+    },
     /// Measured CD to ORD, or ORD to CD, by Kramers-Kronig.
     Kk {
         data: PathBuf,
@@ -281,6 +324,17 @@ pub fn run<I: IntoIterator<Item = OsString>>(args: I) -> i32 {
             result
         }
         Verb::Colour(args) => colour::run(&args, &mut out),
+        Verb::States { files, temperature, fwhm_ev, sigma_ev, shift_ev, shape, velocity, concentration, output } => {
+            let o = states::StatesOptions { files: &files, temperature_k: temperature, fwhm_ev, sigma_ev, shift_ev, shape: &shape, velocity, concentration, output: &output };
+            let mut notes = String::new();
+            let result = states::run_states(&o, &mut notes);
+            eprint!("{notes}");
+            result
+        }
+        Verb::Compare { doc, data, from, to, label, columns } => {
+            let o = states::CompareOptions { from_nm: from, to_nm: to, label: &label };
+            states::run_compare(&doc, &data, &columns.flags(), &o, &mut out)
+        }
         Verb::Kk { data, columns, add, from, to, step, unit, lines } => {
             let options = measured::KkOptions { add: add.as_deref(), from, to, step, unit: &unit, lines };
             measured::kk(&data, &columns.flags(), &options, &mut out)

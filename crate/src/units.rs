@@ -57,14 +57,73 @@ pub const ELLIPTICITY_DEG_PER_DELTA_A: f64 = LN_10 / 4.0 * DEG_PER_RAD;
 /// factor 100 turns mol/L * cm into dmol/cm^2; about 3298.2.
 pub const MOLAR_ELLIPTICITY_PER_DELTA_EPSILON: f64 = MOLAR_PER_OBSERVED * ELLIPTICITY_DEG_PER_DELTA_A;
 
+/// Electron mass (g): CODATA 2018.
+pub const ELECTRON_MASS_G: f64 = 9.109_383_701_5e-28;
+/// Elementary charge (esu): 1.602176634e-19 C times c/10 (exact SI 2019).
+pub const ELEMENTARY_CHARGE_ESU: f64 = 4.803_204_712_570_263e-10;
+
 /// Oscillator strength per integrated absorption: f = F * int e dnu with
 /// F = 1000 ln10 m_e c^2 / (pi N_A e^2), about 4.319e-9 (cgs).
 pub fn oscillator_strength_factor() -> f64 {
-    // Electron mass (g) and elementary charge (esu): CODATA 2018.
-    const ELECTRON_MASS_G: f64 = 9.109_383_701_5e-28;
-    const ELEMENTARY_CHARGE_ESU: f64 = 4.803_204_712_570_263e-10;
     CM3_PER_LITRE * LN_10 * ELECTRON_MASS_G * LIGHT_CM_PER_S * LIGHT_CM_PER_S
         / (PI * AVOGADRO_PER_MOL * ELEMENTARY_CHARGE_ESU * ELEMENTARY_CHARGE_ESU)
+}
+
+/// f = K nu D for a transition at nu (cm^-1) of dipole strength D
+/// (debye^2): K = 8 pi^2 m_e c / (3 h e^2) per debye^2, about 4.702e-7
+/// (f = (8 pi^2 m_e c nu / 3 h e^2) |mu|^2, standard photophysics texts).
+pub const OSCILLATOR_PER_WAVENUMBER_DEBYE2: f64 = 8.0 * PI * PI * ELECTRON_MASS_G * LIGHT_CM_PER_S
+    / (3.0 * PLANCK_ERG_S * ELEMENTARY_CHARGE_ESU * ELEMENTARY_CHARGE_ESU)
+    * ESU2_CM2_PER_DEBYE2;
+
+/// Joules per erg.
+pub const JOULE_PER_ERG: f64 = 1e-7;
+/// The thermochemical calorie, J (exact by definition).
+pub const JOULE_PER_CALORIE: f64 = 4.184;
+/// Hartree energy, J (CODATA 2018).
+pub const HARTREE_JOULE: f64 = 4.359_744_722_207_1e-18;
+
+/// Energy units of conformer energies.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum EnergyUnit {
+    KcalPerMol,
+    KjPerMol,
+    ElectronVolt,
+    Hartree,
+}
+
+impl EnergyUnit {
+    pub const ALL: [EnergyUnit; 4] = [EnergyUnit::KcalPerMol, EnergyUnit::KjPerMol, EnergyUnit::ElectronVolt, EnergyUnit::Hartree];
+
+    pub fn key(self) -> &'static str {
+        match self {
+            EnergyUnit::KcalPerMol => "kcal/mol",
+            EnergyUnit::KjPerMol => "kJ/mol",
+            EnergyUnit::ElectronVolt => "eV",
+            EnergyUnit::Hartree => "hartree",
+        }
+    }
+
+    pub fn parse(s: &str) -> Option<EnergyUnit> {
+        let c: String = s.chars().filter(|c| !c.is_whitespace()).collect::<String>().to_lowercase();
+        match c.as_str() {
+            "kcal/mol" | "kcalmol-1" | "kcal" => Some(EnergyUnit::KcalPerMol),
+            "kj/mol" | "kjmol-1" | "kj" => Some(EnergyUnit::KjPerMol),
+            "ev" => Some(EnergyUnit::ElectronVolt),
+            "hartree" | "eh" | "au" | "a.u." => Some(EnergyUnit::Hartree),
+            _ => None,
+        }
+    }
+
+    /// One unit of this energy per molecule, erg.
+    pub fn erg_per_molecule(self) -> f64 {
+        match self {
+            EnergyUnit::KcalPerMol => 1000.0 * JOULE_PER_CALORIE / JOULE_PER_ERG / AVOGADRO_PER_MOL,
+            EnergyUnit::KjPerMol => 1000.0 / JOULE_PER_ERG / AVOGADRO_PER_MOL,
+            EnergyUnit::ElectronVolt => ELECTRON_VOLT_ERG,
+            EnergyUnit::Hartree => HARTREE_JOULE / JOULE_PER_ERG,
+        }
+    }
 }
 
 /// eV per cm^-1: h c / (1 eV), about 1.2398e-4.

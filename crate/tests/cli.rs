@@ -293,3 +293,35 @@ fn fit_writes_the_fitted_document_and_prints_the_report() {
     assert_bad_input(&chiroptic(&["fit", &fit_fixture("start.json"), &fit_fixture("cd.csv"), "--fix", "B9.center_nm", "-o", out_path.to_str().unwrap()]), &["no band named \"B9\""]);
     assert_bad_input(&chiroptic(&["fit", &fit_fixture("start.json"), "/nonexistent.csv", "-o", out_path.to_str().unwrap()]), &["/nonexistent.csv"]);
 }
+
+#[test]
+fn states_and_compare_assign_a_configuration() {
+    // The invented transition list of fixtures/states: broadened into a
+    // document, then compared with its own CD moved by 0.2 eV (a stand-in
+    // measurement) and with the mirror image of that.
+    let example = format!("{}/../fixtures/states/example.txt", env!("CARGO_MANIFEST_DIR"));
+    let dir = std::env::temp_dir().join(format!("chiroptic-states-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let doc = dir.join("computed.json");
+    let out = chiroptic(&["states", &example, "--fwhm-ev", "0.3", "-o", doc.to_str().unwrap()]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("74.97 %"), "populations printed");
+    let shifted = dir.join("shifted.json");
+    let out = chiroptic(&["states", &example, "--shift-ev", "0.2", "-o", shifted.to_str().unwrap()]);
+    assert!(out.status.success());
+    let csv = String::from_utf8(chiroptic(&["eval", shifted.to_str().unwrap(), "--from", "190", "--to", "330", "--step", "0.5"]).stdout).unwrap();
+    let de: String = csv.lines().map(|l| { let f: Vec<&str> = l.split(',').collect(); format!("{},{}\n", f[0], f[12]) }).collect();
+    let measured = temp_doc("measured-cd.csv", &de);
+    let mirror: String = de.lines().enumerate().map(|(i, l)| if i == 0 { format!("{l}\n") } else { let (x, y) = l.split_once(',').unwrap(); format!("{x},{}\n", -y.parse::<f64>().unwrap()) }).collect();
+    let mirrored = temp_doc("mirror-cd.csv", &mirror);
+    let out = chiroptic(&["compare", doc.to_str().unwrap(), measured.to_str().unwrap(), "--label", "R"]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let text = String::from_utf8(out.stdout).unwrap();
+    let shift: f64 = text.lines().find(|l| l.starts_with("best_shift_ev")).unwrap().split(',').nth(1).unwrap().parse().unwrap();
+    assert!((shift - 0.2).abs() < 0.01, "best shift {shift}");
+    assert!(text.contains("the computed configuration (R) matches"), "{text}");
+    let out = chiroptic(&["compare", doc.to_str().unwrap(), mirrored.to_str().unwrap(), "--label", "R"]);
+    assert!(String::from_utf8(out.stdout).unwrap().contains("the mirror image of the computed configuration (R) matches"));
+    let bad = temp_doc("bad-states.txt", "conformer A, energy 0.5\nenergy_eV f R\n4.5 0.1 3\n");
+    assert_bad_input(&chiroptic(&["states", bad.to_str().unwrap(), "-o", doc.to_str().unwrap()]), &["bad-states.txt", "line 1", "needs its unit"]);
+}

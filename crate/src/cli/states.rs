@@ -1,0 +1,158 @@
+//! `states`: transition lists of computed excited states to a document whose
+//! bands are the broadened transitions. `compare`: how well a document's CD
+//! matches a measured CD, and its mirror image, at the best energy shift.
+
+use super::measured::{read_table, ColumnFlags};
+use super::{load, Failure};
+use crate::data::{data_set_doc, data_sets};
+use crate::document::{Document, SampleDoc, SolventDoc, SourceDoc};
+use crate::error::{Error, ErrorKind};
+use crate::import::{ColumnChoice, Measured};
+use crate::similarity::{best_shift, overlap};
+use crate::states::{self, table, Broadening, Conformer, Gauge};
+use crate::units::AxisUnit;
+use std::path::{Path, PathBuf};
+
+fn bad(origin: &str, kind: ErrorKind, message: impl Into<String>) -> Failure {
+    Failure::input(origin, Error::new(kind, "", message))
+}
+
+pub struct StatesOptions<'a> {
+    pub files: &'a [PathBuf],
+    pub temperature_k: Option<f64>,
+    pub fwhm_ev: Option<f64>,
+    pub sigma_ev: Option<f64>,
+    pub shift_ev: f64,
+    pub shape: &'a str,
+    pub velocity: bool,
+    pub concentration: f64,
+    pub output: &'a Path,
+}
+
+pub fn run_states(o: &StatesOptions, notes: &mut String) -> Result<(), Failure> {
+    let mut conformers: Vec<Conformer> = Vec::new();
+    for path in o.files {
+        let origin = path.display().to_string();
+        let meta = std::fs::metadata(path).map_err(|e| bad(&origin, ErrorKind::Io, format!("cannot read: {e}")))?;
+        if meta.len() > crate::import::MAX_IMPORT_BYTES {
+            return Err(bad(&origin, ErrorKind::TooLarge, format!("file is {} bytes; the limit is {}", meta.len(), crate::import::MAX_IMPORT_BYTES)));
+        }
+        let text = std::fs::read_to_string(path).map_err(|e| bad(&origin, ErrorKind::Io, format!("cannot read: {e}")))?;
+        conformers.extend(table::parse(&text).map_err(|e| bad(&origin, ErrorKind::Syntax, e.to_string()))?);
+    }
+    if !matches!(o.shape, "gaussian" | "lorentz" | "voigt") {
+        return Err(bad("--shape", ErrorKind::UnknownName, format!("unknown shape \"{}\" (use gaussian, lorentz or voigt)", o.shape)));
+    }
+    let fwhm = match (o.fwhm_ev, o.sigma_ev) {
+        (Some(_), Some(_)) => return Err(bad("--fwhm-ev/--sigma-ev", ErrorKind::OutOfRange, "give the width once, as FWHM or as sigma")),
+        (Some(w), None) => w,
+        (None, Some(s)) => states::fwhm_from_sigma(s),
+        (None, None) => states::DEFAULT_FWHM_EV,
+    };
+    let b = Broadening {
+        shape: o.shape.into(),
+        fwhm_ev: fwhm,
+        shift_ev: o.shift_ev,
+        gauge: if o.velocity { Gauge::Velocity } else { Gauge::Length },
+        temperature_k: o.temperature_k.unwrap_or(states::DEFAULT_TEMPERATURE_K),
+        ..Broadening::default()
+    };
+    let populations = states::populations(&conformers, b.temperature_k).map_err(|e| Failure::input("conformers", e))?;
+    notes.push_str(&format!("populations at {} K:\n", b.temperature_k));
+    for (c, p) in conformers.iter().zip(&populations) {
+        notes.push_str(&format!("  {:<24} {:6.2} %  ({} transitions)\n", c.name, 100.0 * p, c.transitions.len()));
+    }
+    let bands = states::bands(&conformers, &b).map_err(|e| Failure::input("broadening", e))?;
+    if bands.len() > crate::document::MAX_BANDS {
+        return Err(bad("states", ErrorKind::TooLarge, format!("{} transitions; a document holds at most {}", bands.len(), crate::document::MAX_BANDS)));
+    }
+    let doc = Document {
+        chiroptic: crate::document::FORMAT_VERSION,
+        title: format!("computed transitions ({}), {:.2} eV FWHM {}", o.files.iter().map(|p| p.display().to_string()).collect::<Vec<_>>().join(", "), fwhm, o.shape),
+        sample: SampleDoc {
+            concentration_mol_per_l: o.concentration,
+            path_length_cm: 1.0,
+            molar_mass_g_per_mol: None,
+            mean_residue_weight_g_per_mol: None,
+            solvent: SolventDoc { constant: Some(1.0), ..SolventDoc::default() },
+        },
+        bands,
+        view: None,
+        data: Vec::new(),
+        readings: Vec::new(),
+        fit: None,
+    };
+    crate::model::Model::from_document(&doc).map_err(|e| Failure::input("broadened model", e))?;
+    notes.push_str("note: a truncated sum over computed states is a rough estimate of [α]_D; compare the CD, not the rotation alone\n");
+    std::fs::write(o.output, doc.to_json_pretty() + "\n").map_err(|e| bad(&o.output.display().to_string(), ErrorKind::Io, format!("cannot write: {e}")))
+}
+
+pub struct CompareOptions<'a> {
+    pub from_nm: Option<f64>,
+    pub to_nm: Option<f64>,
+    pub label: &'a str,
+}
+
+/// Grid step of the comparison, eV.
+const COMPARE_STEP_EV: f64 = 0.005;
+/// The shift search range, eV.
+const MAX_SHIFT_EV: f64 = 1.0;
+
+pub fn run_compare(doc_path: &Path, data_path: &Path, flags: &ColumnFlags, o: &CompareOptions, out: &mut Vec<u8>) -> Result<(), Failure> {
+    let origin = data_path.display().to_string();
+    let (mut doc, model) = load(doc_path)?;
+    let table = read_table(data_path, flags.block)?;
+    let r = table.recognise(&ColumnChoice::default()).map_err(|e| bad(&origin, ErrorKind::MissingField, e.to_string()))?;
+    if !matches!(r.measured, Measured::Cd(_)) {
+        return Err(bad(&origin, ErrorKind::OutOfRange, "compare needs measured CD"));
+    }
+    doc.data = vec![data_set_doc("measured", &r, SourceDoc::default())];
+    let set = data_sets(&doc, &model).map_err(|e| Failure::input(&origin, e))?.remove(0);
+    let de = set.delta_epsilon().map_err(|e| bad(&origin, ErrorKind::MissingField, e.0))?;
+    let ev: Vec<f64> = set.wavenumbers().iter().map(|n| AxisUnit::ElectronVolt.from_wavenumber(*n)).collect();
+    // The range, in eV, and an even grid across it.
+    let (lo_nm, hi_nm) = (o.from_nm.unwrap_or(f64::NEG_INFINITY), o.to_nm.unwrap_or(f64::INFINITY));
+    let to_ev = |nm: f64| AxisUnit::ElectronVolt.from_wavenumber(AxisUnit::Nanometre.to_wavenumber(nm));
+    let (e_min, e_max) = (ev.iter().copied().fold(f64::INFINITY, f64::min), ev.iter().copied().fold(f64::NEG_INFINITY, f64::max));
+    let e_lo = e_min.max(if hi_nm.is_finite() { to_ev(hi_nm) } else { e_min });
+    let e_hi = e_max.min(if lo_nm.is_finite() { to_ev(lo_nm) } else { e_max });
+    if !(e_hi > e_lo) {
+        return Err(bad("--from/--to", ErrorKind::OutOfRange, "the range leaves no measured point"));
+    }
+    let count = ((e_hi - e_lo) / COMPARE_STEP_EV).ceil() as usize + 1;
+    let at: Vec<f64> = (0..count).map(|i| e_lo + (e_hi - e_lo) * i as f64 / (count - 1) as f64).collect();
+    let mut pairs: Vec<(f64, f64)> = ev.iter().copied().zip(de.iter().copied()).collect();
+    pairs.sort_by(|a, b| a.0.total_cmp(&b.0));
+    let (ev_sorted, de_sorted): (Vec<f64>, Vec<f64>) = pairs.into_iter().unzip();
+    let measured: Vec<f64> = at.iter().map(|e| crate::processing::interpolate(&ev_sorted, &de_sorted, *e).unwrap_or(0.0)).collect();
+    // The computed De on a grid wider by the shift range.
+    let g_lo = (e_lo - MAX_SHIFT_EV).max(0.05);
+    let g_count = ((e_hi + MAX_SHIFT_EV - g_lo) / COMPARE_STEP_EV).ceil() as usize + 1;
+    let grid: Vec<f64> = (0..g_count).map(|i| g_lo + COMPARE_STEP_EV * i as f64).collect();
+    let nu: Vec<f64> = grid.iter().map(|e| AxisUnit::ElectronVolt.to_wavenumber(*e)).collect();
+    // Solvent series outside their range do not matter for De: compare on a constant index.
+    let mut plain = model.clone();
+    plain.sample.solvent = crate::solvent::Solvent::Constant(1.0);
+    let computed = crate::spectra::evaluate(&plain, &nu).map_err(|e| Failure::input(&doc_path.display().to_string(), e))?.delta_epsilon;
+    let unshifted: Vec<f64> = at.iter().map(|e| crate::processing::interpolate(&grid, &computed, *e).unwrap_or(0.0)).collect();
+    let s0 = overlap(&unshifted, &measured);
+    let (shift, s) = best_shift(&grid, &computed, &at, &measured, MAX_SHIFT_EV, 0.01, 1.0);
+    let (mirror_shift, s_mirror) = best_shift(&grid, &computed, &at, &measured, MAX_SHIFT_EV, 0.01, -1.0);
+    // Each is scored at its own best shift.
+    let computed_text = format!("{s:.2} (shift {shift:+.2} eV)");
+    let mirror_text = format!("{s_mirror:.2} (shift {mirror_shift:+.2} eV)");
+    let label = if o.label.is_empty() { String::new() } else { format!(" ({})", o.label) };
+    let verdict = if s.max(s_mirror) < 0.3 {
+        format!("neither the computed configuration{label}, {computed_text}, nor its mirror image, {mirror_text}, matches well")
+    } else if s >= s_mirror {
+        format!("the computed configuration{label} matches: {computed_text} against {mirror_text} for its mirror image")
+    } else {
+        format!("the mirror image of the computed configuration{label} matches: {mirror_text} against {computed_text} for the computed one")
+    };
+    let text = format!(
+        "quantity,computed,mirror\nsimilarity_unshifted,{},{}\nsimilarity_best,{},{}\nbest_shift_ev,{},{}\n# {verdict} (range {:.3}-{:.3} eV; S = ∫ a b dE / sqrt(∫ a² dE ∫ b² dE))\n",
+        s0, -s0, s, s_mirror, shift, mirror_shift, e_lo, e_hi
+    );
+    out.extend_from_slice(text.as_bytes());
+    Ok(())
+}

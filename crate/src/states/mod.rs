@@ -1,0 +1,182 @@
+//! Computed excited states: conformers with their transitions, Boltzmann
+//! populations, and broadening into the bands of an ordinary model (so the
+//! computed spectrum is the same `Spectra` as any model: CD, ORD,
+//! absorption, lamp lines).
+//!
+//! Conventions: each transition becomes one band whose rotatory and dipole
+//! strengths are the computed ones times the conformer's population; f
+//! converts to D by f = 4.702e-7 nu[cm^-1] D[debye^2] (`units`); no Lorentz
+//! local-field factor is applied unless asked (`local_field`), in which case
+//! R and D are multiplied by ((n^2 + 2)/3) at the solvent's index, as
+//! physics.md describes for computed (vacuum) strengths compared with solution.
+
+pub mod table;
+
+use crate::document::BandDoc;
+use crate::error::{Error, ErrorKind, Result};
+use crate::units::{self, AxisUnit, EnergyUnit};
+
+/// A conformer's weight: a relative energy (Boltzmann) or a given population.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum ConformerEnergy {
+    Relative { value: f64, unit: EnergyUnit },
+    Population(f64),
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct Transition {
+    pub energy_ev: f64,
+    pub oscillator: Option<f64>,
+    pub dipole_debye2: Option<f64>,
+    /// Rotatory strengths, 1e-40 cgs, in the length and velocity forms.
+    pub rotatory_length: Option<f64>,
+    pub rotatory_velocity: Option<f64>,
+}
+
+#[derive(Debug, Clone, PartialEq)]
+pub struct Conformer {
+    pub name: String,
+    pub energy: ConformerEnergy,
+    pub transitions: Vec<Transition>,
+    pub enabled: bool,
+}
+
+/// Which rotatory strength to use.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Gauge {
+    Length,
+    Velocity,
+}
+
+/// How transitions become bands.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Broadening {
+    /// `gaussian`, `lorentz` or `voigt`.
+    pub shape: String,
+    /// Full width at half maximum, eV (for a Voigt: of its Gaussian part).
+    pub fwhm_ev: f64,
+    /// The Lorentzian FWHM of a Voigt band, eV.
+    pub lorentz_fwhm_ev: f64,
+    /// Added to every excitation energy, eV.
+    pub shift_ev: f64,
+    /// Multiplies every strength (R and D).
+    pub scale: f64,
+    pub gauge: Gauge,
+    pub temperature_k: f64,
+    /// The local-field factor (n^2 + 2)/3 to apply, or 1.
+    pub local_field: f64,
+}
+
+/// Room temperature for populations, K (common practice).
+pub const DEFAULT_TEMPERATURE_K: f64 = 298.15;
+/// The usual width of broadened computed CD, eV FWHM (common practice: 0.2-0.4 eV).
+pub const DEFAULT_FWHM_EV: f64 = 0.3;
+
+impl Default for Broadening {
+    fn default() -> Broadening {
+        Broadening {
+            shape: "gaussian".into(),
+            fwhm_ev: DEFAULT_FWHM_EV,
+            lorentz_fwhm_ev: 0.0,
+            shift_ev: 0.0,
+            scale: 1.0,
+            gauge: Gauge::Length,
+            temperature_k: DEFAULT_TEMPERATURE_K,
+            local_field: 1.0,
+        }
+    }
+}
+
+/// FWHM = 2 sqrt(2 ln 2) sigma for a Gaussian (the trade quotes either).
+pub fn fwhm_from_sigma(sigma: f64) -> f64 {
+    2.0 * (2.0 * std::f64::consts::LN_2).sqrt() * sigma
+}
+
+/// Populations (summing to 1 over the enabled conformers): given ones as
+/// given (normalised), relative energies by Boltzmann, p_i ∝ exp(-E_i/(k T)).
+/// A list may not mix the two.
+pub fn populations(conformers: &[Conformer], temperature_k: f64) -> Result<Vec<f64>> {
+    if !(temperature_k > 0.0 && temperature_k.is_finite()) {
+        return Err(Error::new(ErrorKind::NotPositive, "temperature", "the temperature must be positive (K)"));
+    }
+    let given = conformers.iter().filter(|c| matches!(c.energy, ConformerEnergy::Population(_))).count();
+    if given != 0 && given != conformers.len() {
+        return Err(Error::new(ErrorKind::OutOfRange, "conformers", "give every conformer either a relative energy or a population, not a mix"));
+    }
+    let kt = units::BOLTZMANN_ERG_PER_K * temperature_k;
+    let energies: Vec<f64> = conformers
+        .iter()
+        .map(|c| match c.energy {
+            ConformerEnergy::Relative { value, unit } => value * unit.erg_per_molecule(),
+            ConformerEnergy::Population(_) => 0.0,
+        })
+        .collect();
+    let lowest = conformers.iter().zip(&energies).filter(|(c, _)| c.enabled).map(|(_, e)| *e).fold(f64::INFINITY, f64::min);
+    let weights: Vec<f64> = conformers
+        .iter()
+        .zip(&energies)
+        .map(|(c, e)| match (c.enabled, c.energy) {
+            (false, _) => 0.0,
+            (true, ConformerEnergy::Population(p)) => p,
+            (true, ConformerEnergy::Relative { .. }) => (-(e - lowest) / kt).exp(),
+        })
+        .collect();
+    let total: f64 = weights.iter().sum();
+    if !(total > 0.0 && total.is_finite()) {
+        return Err(Error::new(ErrorKind::OutOfRange, "conformers", "no conformer is switched on with a positive population"));
+    }
+    Ok(weights.iter().map(|w| w / total).collect())
+}
+
+/// Dipole strength (debye^2) of a transition: given, or from f.
+pub fn dipole_strength(t: &Transition) -> Option<f64> {
+    t.dipole_debye2.or_else(|| {
+        let nu = AxisUnit::ElectronVolt.to_wavenumber(t.energy_ev);
+        t.oscillator.map(|f| f / (units::OSCILLATOR_PER_WAVENUMBER_DEBYE2 * nu))
+    })
+}
+
+/// The bands of the broadened spectrum, one per transition of every enabled
+/// conformer with a positive population.
+pub fn bands(conformers: &[Conformer], b: &Broadening) -> Result<Vec<BandDoc>> {
+    let p = populations(conformers, b.temperature_k)?;
+    for (name, v) in [("fwhm_ev", b.fwhm_ev), ("scale", b.scale), ("local_field", b.local_field)] {
+        crate::error::positive(name, v, name)?;
+    }
+    crate::error::finite("shift_ev", b.shift_ev)?;
+    let mut out = Vec::new();
+    for (c, pop) in conformers.iter().zip(&p) {
+        if *pop == 0.0 {
+            continue;
+        }
+        for (k, t) in c.transitions.iter().enumerate() {
+            let r = match b.gauge {
+                Gauge::Length => t.rotatory_length.or(t.rotatory_velocity),
+                Gauge::Velocity => t.rotatory_velocity.or(t.rotatory_length),
+            }
+            .unwrap_or(0.0);
+            let d = dipole_strength(t).unwrap_or(0.0);
+            let energy = t.energy_ev + b.shift_ev;
+            if energy <= 0.0 {
+                return Err(Error::new(ErrorKind::OutOfRange, "shift_ev", format!("the shift moves {} state {} to {energy} eV", c.name, k + 1)));
+            }
+            let nu = AxisUnit::ElectronVolt.to_wavenumber(energy);
+            let weight = pop * b.scale * b.local_field;
+            // A transition whose R exceeds what its D allows (|g| <= 2) is
+            // kept at the limit rather than refused: computed strengths of a
+            // weak state can break it by rounding.
+            let r = r * weight;
+            let d = (d * weight).max(crate::model::dissymmetry_limited_dipole_strength(r));
+            out.push(BandDoc {
+                name: format!("{} {} {:.3} eV", c.name, k + 1, t.energy_ev),
+                shape: b.shape.clone(),
+                center_nm: AxisUnit::Nanometre.from_wavenumber(nu),
+                fwhm_cm1: AxisUnit::ElectronVolt.width_to_wavenumber(b.fwhm_ev, nu),
+                lorentz_fwhm_cm1: (b.shape == "voigt").then(|| AxisUnit::ElectronVolt.width_to_wavenumber(b.lorentz_fwhm_ev, nu)),
+                rotatory_strength_1e40_cgs: r,
+                dipole_strength_debye2: d,
+            });
+        }
+    }
+    Ok(out)
+}

@@ -23,7 +23,7 @@ export function renderLines(lines) {
   const columns = Object.fromEntries(COLUMNS.map((key) => [key, fmtColumn(lines.map((l) => l[key] ?? NaN))]));
   $("lines-head").replaceChildren(
     headCell("Line"),
-    headCell("λ / nm"),
+    headCell("λ (air) / nm"),
     ...COLUMNS.map((key) => headCell(labels[key], columns[key].scale)),
   );
   const rows = lines.map((l, row) => {
@@ -43,7 +43,9 @@ export function renderLines(lines) {
   });
   $("lines-rows").replaceChildren(...rows);
   const hasMass = lines.some((l) => l.specific_rotation !== null && l.specific_rotation !== undefined);
+  // Polarimeters quote lamp lines in air; the model takes them as given.
+  const air = "Lamp lines are air wavelengths, as polarimeters quote them.";
   $("lines-note").textContent = hasMass
-    ? "Rotation of the sample as set above; hover a value for all its digits."
-    : "Specific rotation [α] needs the molar mass (Sample & solvent).";
+    ? `Rotation of the sample as set above; hover a value for all its digits. ${air}`
+    : `Specific rotation [α] needs the molar mass (Sample & solvent). ${air}`;
 }

@@ -76,9 +76,8 @@ fn criterion_dir() -> PathBuf {
     if let Some(home) = std::env::var_os("CRITERION_HOME") {
         return PathBuf::from(home);
     }
-    let target = std::env::var_os("CARGO_TARGET_DIR")
-        .map(PathBuf::from)
-        .unwrap_or_else(|| Path::new(MANIFEST_DIR).join("..").join("target"));
+    let target =
+        std::env::var_os("CARGO_TARGET_DIR").map(PathBuf::from).unwrap_or_else(|| Path::new(MANIFEST_DIR).join("..").join("target"));
     target.join("criterion")
 }
 
@@ -128,11 +127,8 @@ fn run_numpy() -> Result<String, String> {
         Ok(o) if !o.status.success() => return Err("python3 has no numpy and scipy (pip install numpy scipy)".into()),
         Ok(_) => {}
     }
-    let out = Command::new("python3")
-        .arg(&script)
-        .arg("--bench")
-        .output()
-        .map_err(|e| format!("could not run {}: {e}", script.display()))?;
+    let out =
+        Command::new("python3").arg(&script).arg("--bench").output().map_err(|e| format!("could not run {}: {e}", script.display()))?;
     if !out.status.success() {
         let err = String::from_utf8_lossy(&out.stderr);
         return Err(format!("{} --bench failed: {}", script.display(), err.lines().last().unwrap_or("")));

@@ -52,7 +52,10 @@ fn main() {
     let (local, chi_local, _) = time_fit(1, 15);
     let (global, chi_global, at_best) = time_fit(8, 7);
     println!("fit_6_gaussians_2x1000 local (1 start): {:.2} ms, chi2 {chi_local:.6}", local * 1e3);
-    println!("fit_6_gaussians_2x1000 default (8 starts, 2 threads): {:.2} ms, chi2 {chi_global:.6}, {at_best} of 8 starts at the best", global * 1e3);
+    println!(
+        "fit_6_gaussians_2x1000 default (8 starts, 2 threads): {:.2} ms, chi2 {chi_global:.6}, {at_best} of 8 starts at the best",
+        global * 1e3
+    );
     let script = format!("{DIR}/bench_fit.py");
     match Command::new("python3").arg(&script).output() {
         Ok(out) if out.status.success() => {

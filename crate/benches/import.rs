@@ -16,8 +16,7 @@ fn ordinates() -> Vec<i64> {
     (0..POINTS)
         .map(|i| {
             let t = i as f64;
-            let y = 30_000.0 * (-((t - 6_000.0) / 900.0).powi(2)).exp()
-                - 18_000.0 * (-((t - 12_000.0) / 1_500.0).powi(2)).exp();
+            let y = 30_000.0 * (-((t - 6_000.0) / 900.0).powi(2)).exp() - 18_000.0 * (-((t - 12_000.0) / 1_500.0).powi(2)).exp();
             // Below a count of 20 the instrument reads its baseline.
             if y.abs() < 20.0 {
                 0

@@ -50,7 +50,11 @@ pub fn conditions_context(base: &SampleContext, c: Option<&ConditionsDoc>, at: &
         if let Some(t) = c.temperature_c {
             let t = finite(&format!("{at}.temperature_c"), t)?;
             if !(-273.15..=1000.0).contains(&t) {
-                return Err(Error::new(ErrorKind::OutOfRange, format!("{at}.temperature_c"), format!("temperature must lie in -273.15..1000 °C (got {t})")));
+                return Err(Error::new(
+                    ErrorKind::OutOfRange,
+                    format!("{at}.temperature_c"),
+                    format!("temperature must lie in -273.15..1000 °C (got {t})"),
+                ));
             }
             temperature = Some(t);
         }
@@ -126,11 +130,15 @@ fn data_set(doc: &Document, model: &Model, i: usize, depth: usize) -> Result<Dat
         Error::new(
             ErrorKind::UnknownName,
             field(i, "unit"),
-            format!("\"{}\" in \"{}\" is not a measured quantity and unit this build knows (quantity cd|ord|absorption)", d.unit, d.quantity),
+            format!(
+                "\"{}\" in \"{}\" is not a measured quantity and unit this build knows (quantity cd|ord|absorption)",
+                d.unit, d.quantity
+            ),
         )
     })?;
-    let axis = AxisUnit::parse(&d.axis_unit)
-        .ok_or_else(|| Error::new(ErrorKind::UnknownName, field(i, "axis_unit"), format!("unknown axis unit \"{}\" (use nm, cm-1 or ev)", d.axis_unit)))?;
+    let axis = AxisUnit::parse(&d.axis_unit).ok_or_else(|| {
+        Error::new(ErrorKind::UnknownName, field(i, "axis_unit"), format!("unknown axis unit \"{}\" (use nm, cm-1 or ev)", d.axis_unit))
+    })?;
     let (context, temperature_c) = conditions_context(&model.sample.context, d.conditions.as_ref(), &field(i, "conditions"))?;
     let mut x = axis_values(&d.x, &field(i, "x"))?;
     let mut y = d.y.clone();
@@ -146,25 +154,45 @@ fn data_set(doc: &Document, model: &Model, i: usize, depth: usize) -> Result<Dat
                     Error::new(ErrorKind::UnknownName, format!("{at}.subtract_blank.blank"), format!("no data set named \"{blank}\""))
                 })?;
                 if j == i || depth > doc.data.len() {
-                    return Err(Error::new(ErrorKind::OutOfRange, format!("{at}.subtract_blank.blank"), "a data set cannot be its own blank, directly or through others"));
+                    return Err(Error::new(
+                        ErrorKind::OutOfRange,
+                        format!("{at}.subtract_blank.blank"),
+                        "a data set cannot be its own blank, directly or through others",
+                    ));
                 }
                 let b = data_set(doc, model, j, depth + 1)?;
                 if b.measured != measured || b.axis != axis {
                     return Err(Error::new(
                         ErrorKind::OutOfRange,
                         format!("{at}.subtract_blank.blank"),
-                        format!("the blank \"{blank}\" is {} {} on a {} axis; this set is {} {} on a {} axis", b.measured.quantity(), b.measured.unit_key(), b.axis.key(), measured.quantity(), measured.unit_key(), axis.key()),
+                        format!(
+                            "the blank \"{blank}\" is {} {} on a {} axis; this set is {} {} on a {} axis",
+                            b.measured.quantity(),
+                            b.measured.unit_key(),
+                            b.axis.key(),
+                            measured.quantity(),
+                            measured.unit_key(),
+                            axis.key()
+                        ),
                     ));
                 }
                 y = processing::subtract_blank(&x, &y, &b.x, &b.y).map_err(|at_x| {
-                    Error::new(ErrorKind::OutOfRange, format!("{at}.subtract_blank.blank"), format!("the blank \"{blank}\" does not cover {at_x} {}", axis.label()))
+                    Error::new(
+                        ErrorKind::OutOfRange,
+                        format!("{at}.subtract_blank.blank"),
+                        format!("the blank \"{blank}\" does not cover {at_x} {}", axis.label()),
+                    )
                 })?;
             }
             StepDoc::ZeroAt { from, to } => {
                 finite(&format!("{at}.zero_at.from"), *from)?;
                 finite(&format!("{at}.zero_at.to"), *to)?;
                 y = processing::zero_at(&x, &y, *from, *to).ok_or_else(|| {
-                    Error::new(ErrorKind::OutOfRange, format!("{at}.zero_at"), format!("no point lies between {from} and {to} {}", axis.label()))
+                    Error::new(
+                        ErrorKind::OutOfRange,
+                        format!("{at}.zero_at"),
+                        format!("no point lies between {from} and {to} {}", axis.label()),
+                    )
                 })?;
             }
             StepDoc::Smooth { window, order } => {
@@ -177,7 +205,11 @@ fn data_set(doc: &Document, model: &Model, i: usize, depth: usize) -> Result<Dat
                     ));
                 }
                 if !processing::evenly_spaced(&x) {
-                    return Err(Error::new(ErrorKind::OutOfRange, format!("{at}.smooth"), "Savitzky-Golay smoothing needs evenly spaced points"));
+                    return Err(Error::new(
+                        ErrorKind::OutOfRange,
+                        format!("{at}.smooth"),
+                        "Savitzky-Golay smoothing needs evenly spaced points",
+                    ));
                 }
                 let smoothed = processing::savitzky_golay(&y, w, o);
                 smoothing_removed = Some(y.iter().zip(&smoothed).map(|(a, b)| a - b).collect());
@@ -186,7 +218,11 @@ fn data_set(doc: &Document, model: &Model, i: usize, depth: usize) -> Result<Dat
             StepDoc::DropAboveHt { limit_v } => {
                 positive(&format!("{at}.drop_above_ht.limit_v"), *limit_v, "voltage limit")?;
                 let volts = ht.clone().ok_or_else(|| {
-                    Error::new(ErrorKind::MissingField, format!("{at}.drop_above_ht"), "this data set has no detector voltage (ht_v) column")
+                    Error::new(
+                        ErrorKind::MissingField,
+                        format!("{at}.drop_above_ht"),
+                        "this data set has no detector voltage (ht_v) column",
+                    )
                 })?;
                 let keep: Vec<bool> = volts.iter().map(|v| *v <= *limit_v).collect();
                 filter_all(&keep, &mut x, &mut y, &mut sd, &mut ht, &mut smoothing_removed);
@@ -205,7 +241,14 @@ fn data_set(doc: &Document, model: &Model, i: usize, depth: usize) -> Result<Dat
     Ok(DataSet { name: d.name.clone(), measured, axis, context, temperature_c, x, y, sd, smoothing_removed, hidden: d.hidden })
 }
 
-fn filter_all(keep: &[bool], x: &mut Vec<f64>, y: &mut Vec<f64>, sd: &mut Option<Vec<f64>>, ht: &mut Option<Vec<f64>>, removed: &mut Option<Vec<f64>>) {
+fn filter_all(
+    keep: &[bool],
+    x: &mut Vec<f64>,
+    y: &mut Vec<f64>,
+    sd: &mut Option<Vec<f64>>,
+    ht: &mut Option<Vec<f64>>,
+    removed: &mut Option<Vec<f64>>,
+) {
     let pick = |v: &[f64]| v.iter().zip(keep).filter(|(_, k)| **k).map(|(a, _)| *a).collect::<Vec<f64>>();
     *x = pick(x);
     *y = pick(y);
@@ -237,11 +280,19 @@ fn check_values(i: usize, x: &[f64], y: &[f64], sd: Option<&[f64]>, ht: Option<&
         return Err(Error::new(ErrorKind::NotPositive, field(i, &format!("sd[{k}]")), "a standard deviation must be positive"));
     }
     if let Some(k) = x.iter().position(|v| !(v.is_finite() && *v > 0.0)) {
-        return Err(Error::new(ErrorKind::NotPositive, field(i, &format!("x[{k}]")), format!("axis values must be positive {}", axis.label())));
+        return Err(Error::new(
+            ErrorKind::NotPositive,
+            field(i, &format!("x[{k}]")),
+            format!("axis values must be positive {}", axis.label()),
+        ));
     }
     let rising = x[1] > x[0];
     if let Some(k) = (1..x.len()).find(|k| if rising { x[*k] <= x[k - 1] } else { x[*k] >= x[k - 1] }) {
-        return Err(Error::new(ErrorKind::OutOfRange, field(i, &format!("x[{k}]")), "the axis must rise or fall throughout, without repeats"));
+        return Err(Error::new(
+            ErrorKind::OutOfRange,
+            field(i, &format!("x[{k}]")),
+            "the axis must rise or fall throughout, without repeats",
+        ));
     }
     Ok(())
 }

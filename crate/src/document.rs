@@ -354,8 +354,8 @@ impl Document {
                 format!("document is {} bytes; the limit is {} bytes", text.len(), MAX_DOCUMENT_BYTES),
             ));
         }
-        let value: serde_json::Value = serde_json::from_str(text)
-            .map_err(|e| Error::new(ErrorKind::Syntax, "", format!("not valid JSON: {e}")))?;
+        let value: serde_json::Value =
+            serde_json::from_str(text).map_err(|e| Error::new(ErrorKind::Syntax, "", format!("not valid JSON: {e}")))?;
         Document::from_value(value)
     }
 
@@ -378,14 +378,14 @@ impl Document {
             return Err(Error::new(ErrorKind::TooLarge, "data", format!("{} data sets; the limit is {MAX_DATA_SETS}", doc.data.len())));
         }
         if doc.readings.len() > MAX_READINGS {
-            return Err(Error::new(ErrorKind::TooLarge, "readings", format!("{} readings; the limit is {MAX_READINGS}", doc.readings.len())));
-        }
-        if doc.bands.len() > MAX_BANDS {
             return Err(Error::new(
                 ErrorKind::TooLarge,
-                "bands",
-                format!("{} bands; the limit is {}", doc.bands.len(), MAX_BANDS),
+                "readings",
+                format!("{} readings; the limit is {MAX_READINGS}", doc.readings.len()),
             ));
+        }
+        if doc.bands.len() > MAX_BANDS {
+            return Err(Error::new(ErrorKind::TooLarge, "bands", format!("{} bands; the limit is {}", doc.bands.len(), MAX_BANDS)));
         }
         Ok(doc)
     }
@@ -401,12 +401,10 @@ impl Document {
 }
 
 fn check_version(value: &serde_json::Value) -> Result<()> {
-    let obj = value
-        .as_object()
-        .ok_or_else(|| Error::new(ErrorKind::Syntax, "", "a chiroptic document is a JSON object"))?;
-    let version = obj.get("chiroptic").ok_or_else(|| {
-        Error::new(ErrorKind::MissingField, "chiroptic", "not a chiroptic document (no \"chiroptic\" version field)")
-    })?;
+    let obj = value.as_object().ok_or_else(|| Error::new(ErrorKind::Syntax, "", "a chiroptic document is a JSON object"))?;
+    let version = obj
+        .get("chiroptic")
+        .ok_or_else(|| Error::new(ErrorKind::MissingField, "chiroptic", "not a chiroptic document (no \"chiroptic\" version field)"))?;
     match version.as_u64() {
         Some(v) if v == u64::from(FORMAT_VERSION) => Ok(()),
         Some(v) => Err(Error::new(

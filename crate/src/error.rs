@@ -60,11 +60,7 @@ pub type Result<T> = std::result::Result<T, Error>;
 pub fn positive(field: &str, value: f64, what: &str) -> Result<f64> {
     finite(field, value)?;
     if value <= 0.0 {
-        return Err(Error::new(
-            ErrorKind::NotPositive,
-            field,
-            format!("{what} must be positive (got {value})"),
-        ));
+        return Err(Error::new(ErrorKind::NotPositive, field, format!("{what} must be positive (got {value})")));
     }
     Ok(value)
 }

@@ -35,16 +35,12 @@ fn principal_value(x: &[f64], f: &[f64], t: f64) -> f64 {
 
 /// Circular birefringence Dn at each `at` wavenumber from Dk sampled on `nu`.
 pub fn delta_n_from_delta_k(nu: &[f64], delta_k: &[f64], at: &[f64]) -> Vec<f64> {
-    at.iter()
-        .map(|&t| (principal_value(nu, delta_k, t) - principal_value(nu, delta_k, -t)) / PI)
-        .collect()
+    at.iter().map(|&t| (principal_value(nu, delta_k, t) - principal_value(nu, delta_k, -t)) / PI).collect()
 }
 
 /// Circular extinction Dk at each `at` wavenumber from Dn sampled on `nu`.
 pub fn delta_k_from_delta_n(nu: &[f64], delta_n: &[f64], at: &[f64]) -> Vec<f64> {
-    at.iter()
-        .map(|&t| -(principal_value(nu, delta_n, t) + principal_value(nu, delta_n, -t)) / PI)
-        .collect()
+    at.iter().map(|&t| -(principal_value(nu, delta_n, t) + principal_value(nu, delta_n, -t)) / PI).collect()
 }
 
 // ---------------------------------------------------------------------------
@@ -79,9 +75,8 @@ impl EvenGrid {
         let ys: Vec<f64> = pairs.iter().map(|p| p.1).collect();
         let (first, last) = (xs[0], xs[xs.len() - 1]);
         let step = (last - first) / (count - 1) as f64;
-        let values = (0..count)
-            .map(|j| crate::processing::interpolate(&xs, &ys, (first + step * j as f64).min(last)).unwrap_or(0.0))
-            .collect();
+        let values =
+            (0..count).map(|j| crate::processing::interpolate(&xs, &ys, (first + step * j as f64).min(last)).unwrap_or(0.0)).collect();
         Some(EvenGrid { first, step, values })
     }
 }
@@ -140,7 +135,7 @@ pub fn transform_even(grid: &EvenGrid, direction: Direction, at: &[f64]) -> Vec<
         });
         // Nodes an odd number of steps below i, then above it.
         let mut total = 0.0;
-        let mut j = if i % 2 == 0 { 1 } else { 0 };
+        let mut j = if i.is_multiple_of(2) { 1 } else { 0 };
         while j < i {
             total += grid.values[j] * (sign * sum[i + j] - difference[i - j]);
             j += 2;

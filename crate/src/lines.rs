@@ -37,8 +37,7 @@ pub struct LineRotation {
 
 /// Rotation, specific and molar rotation of the model at every standard line.
 pub fn rotation_at_lines(model: &Model) -> Result<Vec<LineRotation>> {
-    let grid: Vec<f64> =
-        STANDARD_LINES.iter().map(|l| AxisUnit::Nanometre.to_wavenumber(l.wavelength_nm)).collect();
+    let grid: Vec<f64> = STANDARD_LINES.iter().map(|l| AxisUnit::Nanometre.to_wavenumber(l.wavelength_nm)).collect();
     let s: Spectra = evaluate(model, &grid)?;
     let specific = s.specific_rotation();
     let molar = s.ord_in(OrdUnit::MolarRotation).unwrap_or_default();

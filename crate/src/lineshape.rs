@@ -179,17 +179,13 @@ impl Lineshape {
                 let g = GaussianTerms::new(center, delta);
                 nu.iter().map(|x| g.at(*x)).collect()
             }
-            Lineshape::Voigt { center, delta, lorentz_fwhm } => {
-                nu.iter().map(|x| voigt(center, delta, lorentz_fwhm, *x)).collect()
-            }
+            Lineshape::Voigt { center, delta, lorentz_fwhm } => nu.iter().map(|x| voigt(center, delta, lorentz_fwhm, *x)).collect(),
         }
     }
 
     pub fn center(&self) -> f64 {
         match *self {
-            Lineshape::Lorentz { center, .. }
-            | Lineshape::Gaussian { center, .. }
-            | Lineshape::Voigt { center, .. } => center,
+            Lineshape::Lorentz { center, .. } | Lineshape::Gaussian { center, .. } | Lineshape::Voigt { center, .. } => center,
         }
     }
 }
@@ -268,13 +264,7 @@ impl LorentzMean {
         let a = center * center;
         let gamma2 = gamma * gamma;
         let u1 = Complex64::new(a - gamma2 / 2.0, gamma * (a - gamma2 / 4.0).sqrt());
-        LorentzMean {
-            a,
-            gamma2,
-            u1,
-            k: (-u1).ln() * u1 / Complex64::new(0.0, 2.0 * u1.im),
-            scale: (2.0 / PI) * (2.0 / PI) * gamma / 2.0,
-        }
+        LorentzMean { a, gamma2, u1, k: (-u1).ln() * u1 / Complex64::new(0.0, 2.0 * u1.im), scale: (2.0 / PI) * (2.0 / PI) * gamma / 2.0 }
     }
 
     /// `ln_nu` is ln(nu), shared by every band of a grid.

@@ -38,12 +38,7 @@ impl Model {
 
     pub fn from_document(doc: &Document) -> Result<Model> {
         let sample = sample_from_doc(&doc.sample)?;
-        let bands = doc
-            .bands
-            .iter()
-            .enumerate()
-            .map(|(i, b)| band_from_doc(i, b))
-            .collect::<Result<Vec<_>>>()?;
+        let bands = doc.bands.iter().enumerate().map(|(i, b)| band_from_doc(i, b)).collect::<Result<Vec<_>>>()?;
         Ok(Model { sample, bands })
     }
 
@@ -56,14 +51,9 @@ impl Model {
 fn sample_from_doc(s: &SampleDoc) -> Result<Sample> {
     let concentration = positive("sample.concentration_mol_per_l", s.concentration_mol_per_l, "concentration")?;
     let path = positive("sample.path_length_cm", s.path_length_cm, "path length")?;
-    let molar_mass = s
-        .molar_mass_g_per_mol
-        .map(|m| positive("sample.molar_mass_g_per_mol", m, "molar mass"))
-        .transpose()?;
-    let mrw = s
-        .mean_residue_weight_g_per_mol
-        .map(|m| positive("sample.mean_residue_weight_g_per_mol", m, "mean residue weight"))
-        .transpose()?;
+    let molar_mass = s.molar_mass_g_per_mol.map(|m| positive("sample.molar_mass_g_per_mol", m, "molar mass")).transpose()?;
+    let mrw =
+        s.mean_residue_weight_g_per_mol.map(|m| positive("sample.mean_residue_weight_g_per_mol", m, "mean residue weight")).transpose()?;
     Ok(Sample {
         context: SampleContext {
             concentration_mol_per_l: concentration,
@@ -115,11 +105,7 @@ fn solvent_from_doc(s: &SolventDoc) -> Result<Solvent> {
             }
             Ok(Solvent::Sellmeier { b: b.clone(), c_um2: c_um2.clone(), range: None })
         }
-        _ => Err(Error::new(
-            ErrorKind::MissingField,
-            "sample.solvent",
-            "give exactly one of \"constant\", \"cauchy\" or \"sellmeier\"",
-        )),
+        _ => Err(Error::new(ErrorKind::MissingField, "sample.solvent", "give exactly one of \"constant\", \"cauchy\" or \"sellmeier\"")),
     }
 }
 
@@ -155,9 +141,9 @@ fn band_from_doc(i: usize, b: &BandDoc) -> Result<Band> {
         "lorentz" => Lineshape::lorentz(center, fwhm),
         "gaussian" => Lineshape::gaussian(center, fwhm),
         "voigt" => {
-            let lf = b.lorentz_fwhm_cm1.ok_or_else(|| {
-                Error::new(ErrorKind::MissingField, field("lorentz_fwhm_cm1"), "a voigt band needs its Lorentzian width")
-            })?;
+            let lf = b
+                .lorentz_fwhm_cm1
+                .ok_or_else(|| Error::new(ErrorKind::MissingField, field("lorentz_fwhm_cm1"), "a voigt band needs its Lorentzian width"))?;
             finite(&field("lorentz_fwhm_cm1"), lf)?;
             if lf < 0.0 || lf >= center {
                 return Err(Error::new(

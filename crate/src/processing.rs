@@ -65,7 +65,7 @@ pub fn evenly_spaced(x: &[f64]) -> bool {
 /// odd, greater than `order` and at most `y.len()`.
 pub fn savitzky_golay(y: &[f64], window: usize, order: usize) -> Vec<f64> {
     let n = y.len();
-    if window < 3 || window % 2 == 0 || order >= window || window > n {
+    if window < 3 || window.is_multiple_of(2) || order >= window || window > n {
         return y.to_vec();
     }
     let m = (window / 2) as i64;

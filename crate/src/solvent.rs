@@ -35,20 +35,26 @@ impl ValidRange {
 pub enum Solvent {
     Constant(f64),
     /// n = a + b / lambda^2 + c / lambda^4, lambda in um.
-    Cauchy { a: f64, b_um2: f64, c_um4: f64 },
+    Cauchy {
+        a: f64,
+        b_um2: f64,
+        c_um4: f64,
+    },
     /// n^2 - 1 = sum B_i lambda^2 / (lambda^2 - C_i), lambda in um; a preset
     /// carries the range it was fitted over.
-    Sellmeier { b: Vec<f64>, c_um2: Vec<f64>, range: Option<ValidRange> },
+    Sellmeier {
+        b: Vec<f64>,
+        c_um2: Vec<f64>,
+        range: Option<ValidRange>,
+    },
 }
 
 impl Solvent {
     pub fn preset(name: &str) -> Option<Solvent> {
         match name {
-            "water-20c" => Some(Solvent::Sellmeier {
-                b: WATER_20C_B.to_vec(),
-                c_um2: WATER_20C_C_UM2.to_vec(),
-                range: Some(WATER_20C_RANGE),
-            }),
+            "water-20c" => {
+                Some(Solvent::Sellmeier { b: WATER_20C_B.to_vec(), c_um2: WATER_20C_C_UM2.to_vec(), range: Some(WATER_20C_RANGE) })
+            }
             _ => None,
         }
     }

@@ -3,9 +3,7 @@
 
 use crate::error::{Error, ErrorKind, Result};
 use crate::model::Model;
-use crate::units::{
-    self, AxisUnit, CdUnit, OrdUnit, SampleContext, UnitError, DIPOLE_CONSTANT, ROTATORY_CONSTANT,
-};
+use crate::units::{self, AxisUnit, CdUnit, OrdUnit, SampleContext, UnitError, DIPOLE_CONSTANT, ROTATORY_CONSTANT};
 use std::f64::consts::{LN_10, PI};
 
 /// Largest grid accepted: enough for any spectrum, small enough for a tab.
@@ -32,11 +30,7 @@ impl Grid {
         let span = (to - from).abs();
         let count = (span / step * (1.0 + 1e-12)).floor() as usize + 1;
         if count > MAX_GRID_POINTS {
-            return Err(Error::new(
-                ErrorKind::TooLarge,
-                "step",
-                format!("{count} points; the limit is {MAX_GRID_POINTS}"),
-            ));
+            return Err(Error::new(ErrorKind::TooLarge, "step", format!("{count} points; the limit is {MAX_GRID_POINTS}")));
         }
         let dir = if to >= from { 1.0 } else { -1.0 };
         let wavenumber_cm1 = (0..count).map(|i| unit.to_wavenumber(from + dir * step * i as f64)).collect();
@@ -113,11 +107,7 @@ pub struct Spectra {
 /// Evaluates the model on a grid of wavenumbers (cm^-1).
 pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
     if wavenumber_cm1.len() > MAX_GRID_POINTS {
-        return Err(Error::new(
-            ErrorKind::TooLarge,
-            "grid",
-            format!("{} points; the limit is {MAX_GRID_POINTS}", wavenumber_cm1.len()),
-        ));
+        return Err(Error::new(ErrorKind::TooLarge, "grid", format!("{} points; the limit is {MAX_GRID_POINTS}", wavenumber_cm1.len())));
     }
     if let Some(bad) = wavenumber_cm1.iter().find(|nu| !(nu.is_finite() && **nu > 0.0)) {
         return Err(Error::new(ErrorKind::OutOfRange, "grid", format!("wavenumbers must be positive (got {bad})")));
@@ -131,8 +121,7 @@ pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
     let n_solvent = solvent_index(model, wavenumber_cm1)?;
     // Per-point factors, computed once: e = eps_per_k * k, phi = deg_per_dn * Dn.
     let eps_per_k: Vec<f64> = wavenumber_cm1.iter().map(|nu| epsilon_from_k(1.0, *nu, c)).collect();
-    let deg_per_dn: Vec<f64> =
-        wavenumber_cm1.iter().map(|nu| units::degrees_from_delta_n(1.0, *nu, ctx.path_length_cm)).collect();
+    let deg_per_dn: Vec<f64> = wavenumber_cm1.iter().map(|nu| units::degrees_from_delta_n(1.0, *nu, ctx.path_length_cm)).collect();
 
     let mut delta_n = vec![0.0; n];
     let mut delta_k = vec![0.0; n];
@@ -187,10 +176,7 @@ pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
 
 fn solvent_index(model: &Model, wavenumber_cm1: &[f64]) -> Result<Vec<f64>> {
     if let Some(range) = model.sample.solvent.valid_range() {
-        let outside = wavenumber_cm1
-            .iter()
-            .map(|nu| AxisUnit::Nanometre.from_wavenumber(*nu))
-            .find(|nm| !range.contains_nm(*nm));
+        let outside = wavenumber_cm1.iter().map(|nu| AxisUnit::Nanometre.from_wavenumber(*nu)).find(|nm| !range.contains_nm(*nm));
         if let Some(nm) = outside {
             return Err(Error::new(
                 ErrorKind::OutOfRange,

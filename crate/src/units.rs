@@ -44,8 +44,7 @@ pub const DEG_PER_RAD: f64 = 180.0 / PI;
 
 /// Rotatory-strength constant C_R in R = C_R * int (De/nu) dnu, esu^2 cm^2
 /// per (M^-1 cm^-1): 3 h c ln10 * 1000 / (32 pi^3 N_A), about 2.296e-39.
-pub const ROTATORY_CONSTANT: f64 =
-    3.0 * PLANCK_ERG_S * LIGHT_CM_PER_S * LN_10 * CM3_PER_LITRE / (32.0 * PI * PI * PI * AVOGADRO_PER_MOL);
+pub const ROTATORY_CONSTANT: f64 = 3.0 * PLANCK_ERG_S * LIGHT_CM_PER_S * LN_10 * CM3_PER_LITRE / (32.0 * PI * PI * PI * AVOGADRO_PER_MOL);
 
 /// Dipole-strength constant C_D = 4 C_R in D = C_D * int (e/nu) dnu.
 pub const DIPOLE_CONSTANT: f64 = 4.0 * ROTATORY_CONSTANT;
@@ -215,8 +214,7 @@ pub struct SampleContext {
 impl SampleContext {
     /// Mass concentration in g/mL (needs the molar mass).
     pub fn mass_concentration_g_per_ml(&self) -> Option<f64> {
-        self.molar_mass_g_per_mol
-            .map(|m| self.concentration_mol_per_l * m / CM3_PER_LITRE)
+        self.molar_mass_g_per_mol.map(|m| self.concentration_mol_per_l * m / CM3_PER_LITRE)
     }
 }
 
@@ -335,12 +333,11 @@ impl CdUnit {
 /// c_residue = c_g_per_ml * 1000 / MRW, i.e. theta_deg MRW / (10 l_cm c_g_per_ml)
 /// = [theta] MRW / M (standard CD texts). Returns the factor on theta_deg.
 fn mean_residue_factor(s: &SampleContext) -> Result<f64, UnitError> {
-    let mrw = s.mean_residue_weight_g_per_mol.ok_or_else(|| {
-        UnitError("mean residue ellipticity needs sample.mean_residue_weight_g_per_mol".into())
-    })?;
-    let c_g_per_ml = s.mass_concentration_g_per_ml().ok_or_else(|| {
-        UnitError("mean residue ellipticity needs sample.molar_mass_g_per_mol".into())
-    })?;
+    let mrw = s
+        .mean_residue_weight_g_per_mol
+        .ok_or_else(|| UnitError("mean residue ellipticity needs sample.mean_residue_weight_g_per_mol".into()))?;
+    let c_g_per_ml =
+        s.mass_concentration_g_per_ml().ok_or_else(|| UnitError("mean residue ellipticity needs sample.molar_mass_g_per_mol".into()))?;
     let residue_mol_per_l = c_g_per_ml * CM3_PER_LITRE / mrw;
     Ok(MOLAR_PER_OBSERVED / (s.path_length_cm * residue_mol_per_l))
 }
@@ -359,8 +356,7 @@ pub enum OrdUnit {
 }
 
 impl OrdUnit {
-    pub const ALL: [OrdUnit; 4] =
-        [OrdUnit::Degrees, OrdUnit::SpecificRotation, OrdUnit::MolarRotation, OrdUnit::DeltaN];
+    pub const ALL: [OrdUnit; 4] = [OrdUnit::Degrees, OrdUnit::SpecificRotation, OrdUnit::MolarRotation, OrdUnit::DeltaN];
 
     pub fn key(self) -> &'static str {
         match self {
@@ -499,9 +495,7 @@ pub fn delta_n_from_degrees(phi_deg: f64, nu: f64, path_length_cm: f64) -> f64 {
 
 /// [alpha] = 100 phi / (l_dm c_g_per_100ml) = phi / (l_dm c_g_per_ml).
 pub fn specific_rotation(phi_deg: f64, s: &SampleContext) -> Result<f64, UnitError> {
-    let c = s
-        .mass_concentration_g_per_ml()
-        .ok_or_else(|| UnitError("specific rotation needs sample.molar_mass_g_per_mol".into()))?;
+    let c = s.mass_concentration_g_per_ml().ok_or_else(|| UnitError("specific rotation needs sample.molar_mass_g_per_mol".into()))?;
     Ok(phi_deg / (s.path_length_cm / CM_PER_DM * c))
 }
 

@@ -27,9 +27,22 @@ fn eval_writes_one_row_per_grid_point_with_unit_headers() {
     let text = String::from_utf8(out.stdout).unwrap();
     let mut lines = text.lines();
     let header: Vec<&str> = lines.next().unwrap().split(',').collect();
-    for col in ["wavelength_nm", "wavenumber_cm1", "n_L", "n_R", "k_L", "k_R", "delta_n", "delta_k", "rotation_deg",
-        "specific_rotation_deg_dm-1_(g/mL)-1", "ellipticity_mdeg", "delta_epsilon_M-1_cm-1", "epsilon_M-1_cm-1", "g_factor"]
-    {
+    for col in [
+        "wavelength_nm",
+        "wavenumber_cm1",
+        "n_L",
+        "n_R",
+        "k_L",
+        "k_R",
+        "delta_n",
+        "delta_k",
+        "rotation_deg",
+        "specific_rotation_deg_dm-1_(g/mL)-1",
+        "ellipticity_mdeg",
+        "delta_epsilon_M-1_cm-1",
+        "epsilon_M-1_cm-1",
+        "g_factor",
+    ] {
         assert!(header.contains(&col), "missing column {col}");
     }
     let rows: Vec<Vec<f64>> = lines.map(parse_row).collect();
@@ -156,7 +169,11 @@ fn bad_documents_exit_2_with_one_line_naming_file_and_field() {
 #[test]
 fn bands_with_dissymmetry_beyond_two_are_refused() {
     // |g| = 4|R|/D <= 2 (physics.md): R = 20000 with D = 1 would give g = 8.
-    let text = std::fs::read_to_string(demo()).unwrap().replacen("\"rotatory_strength_1e40_cgs\": 9.0", "\"rotatory_strength_1e40_cgs\": 20000", 1);
+    let text = std::fs::read_to_string(demo()).unwrap().replacen(
+        "\"rotatory_strength_1e40_cgs\": 9.0",
+        "\"rotatory_strength_1e40_cgs\": 20000",
+        1,
+    );
     let p = temp_doc("too-dissymmetric.json", &text);
     assert_bad_input(&chiroptic(&["eval", p.to_str().unwrap()]), &["bands[0].dipole_strength_debye2", "smallest D", "4 D²"]);
 }
@@ -196,7 +213,10 @@ fn import_says_which_flags_name_the_columns() {
     let out = chiroptic(&["import", &fixture("good/no-header.csv"), "--x-unit", "nm", "--quantity", "cd", "--data-unit", "mdeg"]);
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     assert_eq!(String::from_utf8(out.stdout).unwrap().lines().next().unwrap(), "wavelength_nm,ellipticity_mdeg");
-    assert_bad_input(&chiroptic(&["import", &fixture("broken/04-short-row.txt")]), &["04-short-row.txt", "line 38", "2 columns expected, found 1"]);
+    assert_bad_input(
+        &chiroptic(&["import", &fixture("broken/04-short-row.txt")]),
+        &["04-short-row.txt", "line 38", "2 columns expected, found 1"],
+    );
     assert_bad_input(&chiroptic(&["import", &fixture("good/no-header.csv"), "--quantity", "cd"]), &["--data-unit"]);
 }
 
@@ -210,7 +230,9 @@ fn kk_predicts_the_lamp_line_rotations_from_measured_cd() {
     let kk = String::from_utf8(out.stdout).unwrap();
     assert_eq!(kk.lines().next().unwrap(), "line,wavelength_nm,rotation_deg");
     let lines = String::from_utf8(chiroptic(&["lines", &demo()]).stdout).unwrap();
-    let na = |text: &str, col: usize| -> f64 { text.lines().find(|l| l.starts_with("Na D")).unwrap().split(',').nth(col).unwrap().parse().unwrap() };
+    let na = |text: &str, col: usize| -> f64 {
+        text.lines().find(|l| l.starts_with("Na D")).unwrap().split(',').nth(col).unwrap().parse().unwrap()
+    };
     let (predicted, model) = (na(&kk, 2), na(&lines, 2));
     assert!((predicted - model).abs() < 0.01 * model.abs(), "Na D: {predicted} from CD vs {model} from the model");
 
@@ -220,10 +242,14 @@ fn kk_predicts_the_lamp_line_rotations_from_measured_cd() {
     assert_eq!(String::from_utf8(out.stdout).unwrap().lines().count(), 12);
     // ORD -> CD: rotation data give ellipticity.
     let out = chiroptic(&["eval", &demo(), "--from", "190", "--to", "600", "--step", "0.5"]);
-    let ord: String = String::from_utf8(out.stdout).unwrap().lines().map(|l| {
-        let f: Vec<&str> = l.split(',').collect();
-        format!("{},{}\n", f[0], f[8])
-    }).collect();
+    let ord: String = String::from_utf8(out.stdout)
+        .unwrap()
+        .lines()
+        .map(|l| {
+            let f: Vec<&str> = l.split(',').collect();
+            format!("{},{}\n", f[0], f[8])
+        })
+        .collect();
     let p = temp_doc("ord.csv", &ord);
     let out = chiroptic(&["kk", p.to_str().unwrap(), "--add", &demo(), "--from", "220", "--to", "320", "--step", "20"]);
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
@@ -276,7 +302,8 @@ fn fit_writes_the_fitted_document_and_prints_the_report() {
     let dir = std::env::temp_dir().join(format!("chiroptic-fit-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
     let out_path = dir.join("fitted.json");
-    let out = chiroptic(&["fit", &fit_fixture("start.json"), &fit_fixture("cd.csv"), &fit_fixture("ord.csv"), "-o", out_path.to_str().unwrap()]);
+    let out =
+        chiroptic(&["fit", &fit_fixture("start.json"), &fit_fixture("cd.csv"), &fit_fixture("ord.csv"), "-o", out_path.to_str().unwrap()]);
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     let report = String::from_utf8_lossy(&out.stderr);
     for part in ["B2.center_nm", "± ", "reduced", "AIC", "BIC", "D is not determined"] {
@@ -289,9 +316,26 @@ fn fit_writes_the_fitted_document_and_prints_the_report() {
     assert!((doc.bands[1].center_nm - 262.0).abs() < 0.05, "truth.json has 262 nm: {}", doc.bands[1].center_nm);
     assert!(chiroptic(&["lines", out_path.to_str().unwrap()]).status.success());
 
-    assert_bad_input(&chiroptic(&["fit", &fit_fixture("start.json"), &fit_fixture("cd.csv"), "--free", "centre,colour", "-o", out_path.to_str().unwrap()]), &["--free", "colour"]);
-    assert_bad_input(&chiroptic(&["fit", &fit_fixture("start.json"), &fit_fixture("cd.csv"), "--fix", "B9.center_nm", "-o", out_path.to_str().unwrap()]), &["no band named \"B9\""]);
-    assert_bad_input(&chiroptic(&["fit", &fit_fixture("start.json"), "/nonexistent.csv", "-o", out_path.to_str().unwrap()]), &["/nonexistent.csv"]);
+    assert_bad_input(
+        &chiroptic(&[
+            "fit",
+            &fit_fixture("start.json"),
+            &fit_fixture("cd.csv"),
+            "--free",
+            "centre,colour",
+            "-o",
+            out_path.to_str().unwrap(),
+        ]),
+        &["--free", "colour"],
+    );
+    assert_bad_input(
+        &chiroptic(&["fit", &fit_fixture("start.json"), &fit_fixture("cd.csv"), "--fix", "B9.center_nm", "-o", out_path.to_str().unwrap()]),
+        &["no band named \"B9\""],
+    );
+    assert_bad_input(
+        &chiroptic(&["fit", &fit_fixture("start.json"), "/nonexistent.csv", "-o", out_path.to_str().unwrap()]),
+        &["/nonexistent.csv"],
+    );
 }
 
 #[test]
@@ -309,10 +353,28 @@ fn states_and_compare_assign_a_configuration() {
     let shifted = dir.join("shifted.json");
     let out = chiroptic(&["states", &example, "--shift-ev", "0.2", "-o", shifted.to_str().unwrap()]);
     assert!(out.status.success());
-    let csv = String::from_utf8(chiroptic(&["eval", shifted.to_str().unwrap(), "--from", "190", "--to", "330", "--step", "0.5"]).stdout).unwrap();
-    let de: String = csv.lines().map(|l| { let f: Vec<&str> = l.split(',').collect(); format!("{},{}\n", f[0], f[12]) }).collect();
+    let csv =
+        String::from_utf8(chiroptic(&["eval", shifted.to_str().unwrap(), "--from", "190", "--to", "330", "--step", "0.5"]).stdout).unwrap();
+    let de: String = csv
+        .lines()
+        .map(|l| {
+            let f: Vec<&str> = l.split(',').collect();
+            format!("{},{}\n", f[0], f[12])
+        })
+        .collect();
     let measured = temp_doc("measured-cd.csv", &de);
-    let mirror: String = de.lines().enumerate().map(|(i, l)| if i == 0 { format!("{l}\n") } else { let (x, y) = l.split_once(',').unwrap(); format!("{x},{}\n", -y.parse::<f64>().unwrap()) }).collect();
+    let mirror: String = de
+        .lines()
+        .enumerate()
+        .map(|(i, l)| {
+            if i == 0 {
+                format!("{l}\n")
+            } else {
+                let (x, y) = l.split_once(',').unwrap();
+                format!("{x},{}\n", -y.parse::<f64>().unwrap())
+            }
+        })
+        .collect();
     let mirrored = temp_doc("mirror-cd.csv", &mirror);
     let out = chiroptic(&["compare", doc.to_str().unwrap(), measured.to_str().unwrap(), "--label", "R"]);
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
@@ -323,5 +385,8 @@ fn states_and_compare_assign_a_configuration() {
     let out = chiroptic(&["compare", doc.to_str().unwrap(), mirrored.to_str().unwrap(), "--label", "R"]);
     assert!(String::from_utf8(out.stdout).unwrap().contains("the mirror image of the computed configuration (R) matches"));
     let bad = temp_doc("bad-states.txt", "conformer A, energy 0.5\nenergy_eV f R\n4.5 0.1 3\n");
-    assert_bad_input(&chiroptic(&["states", bad.to_str().unwrap(), "-o", doc.to_str().unwrap()]), &["bad-states.txt", "line 1", "needs its unit"]);
+    assert_bad_input(
+        &chiroptic(&["states", bad.to_str().unwrap(), "-o", doc.to_str().unwrap()]),
+        &["bad-states.txt", "line 1", "needs its unit"],
+    );
 }

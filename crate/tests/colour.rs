@@ -223,9 +223,8 @@ fn quartz_of_3_75_mm_between_parallel_polarisers_shows_the_purple_transition_tin
     // 0.1 mm thinner it turns red, 0.1 mm thicker blue.
     let optics = |mm: f64| Optics::of_model(&model_of(&quartz(mm))).unwrap();
     let plate = optics(3.75);
-    let (i_min, t_min) = (0..tables::COUNT)
-        .map(|i| (i, plate.transmission(i, 0.0)))
-        .fold((0, f64::MAX), |a, b| if b.1 < a.1 { b } else { a });
+    let (i_min, t_min) =
+        (0..tables::COUNT).map(|i| (i, plate.transmission(i, 0.0))).fold((0, f64::MAX), |a, b| if b.1 < a.1 { b } else { a });
     let lambda = colour::wavelength_nm(i_min);
     assert!((550.0..=590.0).contains(&lambda) && t_min < 1e-3, "extinguished at {lambda} nm ({t_min})");
 
@@ -278,7 +277,12 @@ fn colours_agree_with_the_colour_science_reference() {
         let c = colour::end_on(&model_of(&case["doc"]), beta, ill).unwrap();
         let get = |k: &str| case[k].as_array().unwrap().iter().map(|v| v.as_f64().unwrap()).collect::<Vec<_>>();
         let label = format!("{} {} {beta}", case["name"], case["illuminant"]);
-        for (ours, theirs) in [(c.xyz.to_vec(), get("xyz")), (c.xy.to_vec(), get("xy")), (c.srgb_linear.to_vec(), get("srgb_linear")), (c.srgb.to_vec(), get("srgb"))] {
+        for (ours, theirs) in [
+            (c.xyz.to_vec(), get("xyz")),
+            (c.xy.to_vec(), get("xy")),
+            (c.srgb_linear.to_vec(), get("srgb_linear")),
+            (c.srgb.to_vec(), get("srgb")),
+        ] {
             for (a, b) in ours.iter().zip(&theirs) {
                 worst = worst.max((a - b).abs());
                 assert!((a - b).abs() < 1e-7, "{label}: {ours:?} vs {theirs:?}");
@@ -358,7 +362,8 @@ fn side_view_bands_slant_as_the_line_of_sight_tilts() {
     // axis and later below it, by 2 atan(v/D) / rho between the two heights.
     let optics = Optics::of_model(&model_of(&long_tube())).unwrap();
     let (w, h, d) = (600u32, 150u32, 12.0);
-    let view = side::render(&optics, &SideViewRequest { width: w, height: h, illuminant: Illuminant::D65, viewer_distance_cm: Some(d) }).unwrap();
+    let view =
+        side::render(&optics, &SideViewRequest { width: w, height: h, illuminant: Illuminant::D65, viewer_distance_cm: Some(d) }).unwrap();
     let y = |col: u32, row: u32| view.at(col, row).unwrap()[1];
     let minima = |row: u32| -> Vec<u32> { (1..w - 1).filter(|&c| y(c, row) < y(c - 1, row) && y(c, row) <= y(c + 1, row)).collect() };
     let centre = minima(h / 2);
@@ -413,7 +418,11 @@ fn odd_inputs_give_errors_or_finite_colours() {
         "bands": [{"shape": "gaussian", "center_nm": 520.0, "fwhm_cm1": 2500.0, "rotatory_strength_1e40_cgs": 5000.0, "dipole_strength_debye2": 20.0}]});
     let c = colour::end_on(&model_of(&dye), 0.0, Illuminant::A).unwrap();
     assert!(c.xyz.iter().all(|v| v.is_finite() && *v >= 0.0) && c.srgb_8bit == [0, 0, 0], "{c:?}");
-    let view = side::render(&Optics::of_model(&model_of(&dye)).unwrap(), &SideViewRequest { width: 40, height: 10, illuminant: Illuminant::A, viewer_distance_cm: None }).unwrap();
+    let view = side::render(
+        &Optics::of_model(&model_of(&dye)).unwrap(),
+        &SideViewRequest { width: 40, height: 10, illuminant: Illuminant::A, viewer_distance_cm: None },
+    )
+    .unwrap();
     assert!(view.pixels.iter().flatten().all(|p| p.iter().all(|v| v.is_finite())));
     // The water preset's range holds: the visible is inside it.
     dye["sample"]["solvent"] = json!({"sellmeier": "water-20c"});
@@ -454,7 +463,9 @@ fn cli_writes_a_png_of_the_side_view_and_refuses_bad_flags_with_exit_2() {
     assert_eq!(&bytes[37..41], b"IDAT");
     let raw = miniz_oxide::inflate::decompress_to_vec_zlib(&bytes[41..41 + idat_len]).unwrap();
     let optics = Optics::of_model(&model_of(&long_tube())).unwrap();
-    let rgba = side::render(&optics, &SideViewRequest { width: 120, height: 30, illuminant: Illuminant::D65, viewer_distance_cm: None }).unwrap().rgba();
+    let rgba = side::render(&optics, &SideViewRequest { width: 120, height: 30, illuminant: Illuminant::D65, viewer_distance_cm: None })
+        .unwrap()
+        .rgba();
     let rows: Vec<u8> = raw.chunks(1 + 120 * 4).flat_map(|r| r[1..].to_vec()).collect();
     assert_eq!(rows, rgba);
 
@@ -477,7 +488,6 @@ fn cli_writes_a_png_of_the_side_view_and_refuses_bad_flags_with_exit_2() {
         assert_eq!(run(&bad), 2, "{bad:?}");
     }
 }
-
 
 #[test]
 fn the_picture_encoder_gives_the_codes_of_the_transfer_function() {

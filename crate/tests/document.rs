@@ -47,9 +47,12 @@ fn documents_round_trip_through_json_exactly() {
 
 #[test]
 fn negative_width_names_the_band_field() {
-    let e = error_of(&with(r#""fwhm_cm1": 3000.0,
-     "rotatory_strength_1e40_cgs": 10.0"#, r#""fwhm_cm1": -3000.0,
-     "rotatory_strength_1e40_cgs": 10.0"#));
+    let e = error_of(&with(
+        r#""fwhm_cm1": 3000.0,
+     "rotatory_strength_1e40_cgs": 10.0"#,
+        r#""fwhm_cm1": -3000.0,
+     "rotatory_strength_1e40_cgs": 10.0"#,
+    ));
     assert_eq!(e.kind, ErrorKind::NotPositive);
     assert_eq!(e.field, "bands[0].fwhm_cm1");
     assert!(e.to_string().contains("width must be positive"), "{e}");
@@ -104,9 +107,12 @@ fn unknown_major_version_is_refused() {
 
 #[test]
 fn a_misspelt_field_is_named_not_ignored() {
-    let e = error_of(&with(r#""fwhm_cm1": 3000.0,
-     "rotatory"#, r#""fwhm_cm": 3000.0,
-     "rotatory"#));
+    let e = error_of(&with(
+        r#""fwhm_cm1": 3000.0,
+     "rotatory"#,
+        r#""fwhm_cm": 3000.0,
+     "rotatory"#,
+    ));
     assert_eq!(e.kind, ErrorKind::UnknownField);
     assert!(e.field.starts_with("bands[0]"), "{e}");
     assert!(e.message.contains("fwhm_cm"), "{e}");
@@ -128,9 +134,12 @@ fn voigt_needs_its_lorentz_width_and_solvent_needs_one_kind() {
 fn negative_dipole_strength_and_wrong_types_are_refused() {
     let e = error_of(&with(r#""dipole_strength_debye2": 2.0"#, r#""dipole_strength_debye2": -2.0"#));
     assert_eq!(e.field, "bands[0].dipole_strength_debye2");
-    let e = error_of(&with(r#""fwhm_cm1": 3000.0,
-     "rotatory"#, r#""fwhm_cm1": "wide",
-     "rotatory"#));
+    let e = error_of(&with(
+        r#""fwhm_cm1": 3000.0,
+     "rotatory"#,
+        r#""fwhm_cm1": "wide",
+     "rotatory"#,
+    ));
     assert_eq!((e.kind, e.field.as_str()), (ErrorKind::Syntax, "bands[0].fwhm_cm1"));
 }
 
@@ -156,7 +165,10 @@ fn a_band_with_dissymmetry_beyond_two_is_refused() {
     let e = error_of(&with("\"dipole_strength_debye2\": 2.0", "\"dipole_strength_debye2\": 0"));
     assert_eq!(e.field, "bands[0].dipole_strength_debye2");
     assert!(Model::from_json(&with("\"dipole_strength_debye2\": 2.0", "\"dipole_strength_debye2\": 0.002")).is_ok());
-    let achiral = with("\"rotatory_strength_1e40_cgs\": 10.0, \"dipole_strength_debye2\": 2.0", "\"rotatory_strength_1e40_cgs\": 0, \"dipole_strength_debye2\": 0");
+    let achiral = with(
+        "\"rotatory_strength_1e40_cgs\": 10.0, \"dipole_strength_debye2\": 2.0",
+        "\"rotatory_strength_1e40_cgs\": 0, \"dipole_strength_debye2\": 0",
+    );
     assert!(Model::from_json(&achiral).is_ok());
     // A negative R is limited by its magnitude.
     let e = error_of(&with("\"rotatory_strength_1e40_cgs\": -4.0", "\"rotatory_strength_1e40_cgs\": -40000"));

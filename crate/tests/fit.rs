@@ -51,7 +51,11 @@ fn analytic_jacobian_matches_finite_differences() {
     let model = Model::from_document(&doc).expect("model");
     let x: Vec<f64> = (0..60).map(|i| 195.0 + 3.0 * i as f64).collect();
     let s = chiroptic::evaluate(&model, &x.iter().map(|l| 1e7 / l).collect::<Vec<_>>()).expect("spectra");
-    for (name, quantity, unit, y) in [("cd", "cd", "mdeg", s.ellipticity_mdeg.clone()), ("ord", "ord", "deg", s.rotation_deg.clone()), ("abs", "absorption", "epsilon", s.epsilon.clone())] {
+    for (name, quantity, unit, y) in [
+        ("cd", "cd", "mdeg", s.ellipticity_mdeg.clone()),
+        ("ord", "ord", "deg", s.rotation_deg.clone()),
+        ("abs", "absorption", "epsilon", s.epsilon.clone()),
+    ] {
         let r = import::Recognised {
             axis: chiroptic::units::AxisUnit::Nanometre,
             x: x.clone(),
@@ -67,10 +71,30 @@ fn analytic_jacobian_matches_finite_differences() {
     let mut params = Vec::new();
     for (b, band) in model.bands.iter().enumerate() {
         let d = &doc.bands[b];
-        params.push(Parameter { target: Target::Center(b), name: "c".into(), start: band.lineshape.center(), mode: Mode::Free { min: None, max: None } });
-        params.push(Parameter { target: Target::Fwhm(b), name: "w".into(), start: d.fwhm_cm1, mode: Mode::Free { min: Some(10.0), max: Some(9000.0) } });
-        params.push(Parameter { target: Target::Rotatory(b), name: "r".into(), start: d.rotatory_strength_1e40_cgs, mode: Mode::Free { min: None, max: None } });
-        params.push(Parameter { target: Target::Dipole(b), name: "d".into(), start: d.dipole_strength_debye2, mode: Mode::Free { min: Some(0.0), max: None } });
+        params.push(Parameter {
+            target: Target::Center(b),
+            name: "c".into(),
+            start: band.lineshape.center(),
+            mode: Mode::Free { min: None, max: None },
+        });
+        params.push(Parameter {
+            target: Target::Fwhm(b),
+            name: "w".into(),
+            start: d.fwhm_cm1,
+            mode: Mode::Free { min: Some(10.0), max: Some(9000.0) },
+        });
+        params.push(Parameter {
+            target: Target::Rotatory(b),
+            name: "r".into(),
+            start: d.rotatory_strength_1e40_cgs,
+            mode: Mode::Free { min: None, max: None },
+        });
+        params.push(Parameter {
+            target: Target::Dipole(b),
+            name: "d".into(),
+            start: d.dipole_strength_debye2,
+            mode: Mode::Free { min: Some(0.0), max: None },
+        });
     }
     params.push(Parameter { target: Target::LorentzFwhm(2), name: "l".into(), start: 900.0, mode: Mode::Free { min: None, max: None } });
     params.push(Parameter { target: Target::Shift, name: "s".into(), start: 40.0, mode: Mode::Free { min: None, max: None } });
@@ -96,7 +120,12 @@ fn analytic_jacobian_matches_finite_differences() {
         let scale = (0..r.len()).map(|i| jac[i * n + k].abs()).fold(0.0, f64::max);
         for i in 0..r.len() {
             let numeric = (rp[i] - rm[i]) / (2.0 * h);
-            assert!((numeric - jac[i * n + k]).abs() <= 1e-5 * scale + 1e-8, "variable {k} ({:?}), residual {i}: analytic {} vs numeric {numeric}", problem.layout.parameters[problem.layout.free[k].0].target, jac[i * n + k]);
+            assert!(
+                (numeric - jac[i * n + k]).abs() <= 1e-5 * scale + 1e-8,
+                "variable {k} ({:?}), residual {i}: analytic {} vs numeric {numeric}",
+                problem.layout.parameters[problem.layout.free[k].0].target,
+                jac[i * n + k]
+            );
         }
     }
 }
@@ -143,7 +172,8 @@ fn the_fit_recovers_the_truth_with_honest_standard_errors() {
         (-2.0 * a.ln()).sqrt() * (2.0 * std::f64::consts::PI * b).cos()
     };
     let mut rng = SmallRng::seed_from_u64(7);
-    let true_values: Vec<f64> = truth_doc.bands.iter().flat_map(|b| [1e7 / b.center_nm, b.fwhm_cm1, b.rotatory_strength_1e40_cgs]).collect();
+    let true_values: Vec<f64> =
+        truth_doc.bands.iter().flat_map(|b| [1e7 / b.center_nm, b.fwhm_cm1, b.rotatory_strength_1e40_cgs]).collect();
     let mut estimates: Vec<Vec<f64>> = Vec::new();
     let mut errors: Vec<Vec<f64>> = Vec::new();
     for _ in 0..50 {
@@ -206,7 +236,13 @@ fn bounds_are_honoured_exactly() {
     let mut doc = problem_document("start.json");
     doc.fit = Some(FitDoc {
         starts: Some(1),
-        parameters: vec![FitParameterDoc { parameter: "B1.fwhm_cm1".into(), fixed: false, min: Some(2700.0), max: Some(4000.0), link: None }],
+        parameters: vec![FitParameterDoc {
+            parameter: "B1.fwhm_cm1".into(),
+            fixed: false,
+            min: Some(2700.0),
+            max: Some(4000.0),
+            link: None,
+        }],
         ..FitDoc::default()
     });
     let fitted = run(&doc);
@@ -217,7 +253,13 @@ fn bounds_are_honoured_exactly() {
     // Centre bounds are given in nm (the document's unit).
     doc.fit = Some(FitDoc {
         starts: Some(1),
-        parameters: vec![FitParameterDoc { parameter: "B1.center_nm".into(), fixed: false, min: Some(299.0), max: Some(302.0), link: None }],
+        parameters: vec![FitParameterDoc {
+            parameter: "B1.center_nm".into(),
+            fixed: false,
+            min: Some(299.0),
+            max: Some(302.0),
+            link: None,
+        }],
         ..FitDoc::default()
     });
     let c = run(&doc).document.bands[0].center_nm;
@@ -233,7 +275,8 @@ fn quartz_rotation_table_fitted_with_one_far_uv_band() {
     let text = r#"{"chiroptic":1,"sample":{"concentration_mol_per_l":1,"path_length_cm":0.1,"solvent":{"constant":1.544}},
       "bands":[{"name":"far UV","shape":"lorentz","center_nm":150,"fwhm_cm1":100,"rotatory_strength_1e40_cgs":3000,"dipole_strength_debye2":10}]}"#;
     let mut doc = Document::from_json(text).expect("doc");
-    doc.readings = lines.iter().map(|(l, r)| ReadingDoc { wavelength_nm: *l, rotation_deg: *r, sd_deg: Some(0.001 * r), conditions: None }).collect();
+    doc.readings =
+        lines.iter().map(|(l, r)| ReadingDoc { wavelength_nm: *l, rotation_deg: *r, sd_deg: Some(0.001 * r), conditions: None }).collect();
     doc.fit = Some(FitDoc { free: vec!["center".into(), "R".into()], starts: Some(4), ..FitDoc::default() });
     let fitted = run(&doc);
     let band = &fitted.document.bands[0];
@@ -252,9 +295,11 @@ fn quartz_rotation_table_fitted_with_one_far_uv_band() {
 fn scatter_estimate_of_white_noise() {
     // The second-difference estimate of sigma on pure noise of sigma 0.5.
     let mut rng = SmallRng::seed_from_u64(3);
-    let y: Vec<f64> = (0..20000).map(|_| {
-        let (a, b): (f64, f64) = (rng.random_range(1e-12..1.0), rng.random_range(0.0..1.0));
-        0.5 * (-2.0 * a.ln()).sqrt() * (2.0 * std::f64::consts::PI * b).cos()
-    }).collect();
+    let y: Vec<f64> = (0..20000)
+        .map(|_| {
+            let (a, b): (f64, f64) = (rng.random_range(1e-12..1.0), rng.random_range(0.0..1.0));
+            0.5 * (-2.0 * a.ln()).sqrt() * (2.0 * std::f64::consts::PI * b).cos()
+        })
+        .collect();
     assert!((scatter_sigma(&y) / 0.5 - 1.0).abs() < 0.03, "{}", scatter_sigma(&y));
 }

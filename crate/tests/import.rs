@@ -28,7 +28,14 @@ fn demo() -> (Document, Model) {
 /// Reads a good fixture and checks its values against the model (the
 /// fixture's values came from the NumPy/SciPy model of the same demo).
 /// `absolute` and `relative` tolerances match the digits the fixture wrote.
-fn check_good(name: &str, axis: AxisUnit, measured: Measured, points: usize, absolute: f64, relative: f64) -> chiroptic::import::Recognised {
+fn check_good(
+    name: &str,
+    axis: AxisUnit,
+    measured: Measured,
+    points: usize,
+    absolute: f64,
+    relative: f64,
+) -> chiroptic::import::Recognised {
     let table = import::read(&fixture(&format!("good/{name}")), None).unwrap_or_else(|e| panic!("{name}: {e}"));
     let r = table.recognise(&ColumnChoice::default()).unwrap_or_else(|e| panic!("{name}: {e}"));
     assert_eq!(r.axis, axis, "{name}: axis");
@@ -177,7 +184,9 @@ fn an_oversized_paste_is_refused_by_its_size() {
 fn savitzky_golay_uses_the_published_weights() {
     // Savitzky and Golay (1964), Table I: quadratic, 5 points: (-3, 12, 17, 12, -3)/35;
     // 7 points: (-2, 3, 6, 7, 6, 3, -2)/21.
-    for (window, weights, norm) in [(5usize, vec![-3.0, 12.0, 17.0, 12.0, -3.0], 35.0), (7, vec![-2.0, 3.0, 6.0, 7.0, 6.0, 3.0, -2.0], 21.0)] {
+    for (window, weights, norm) in
+        [(5usize, vec![-3.0, 12.0, 17.0, 12.0, -3.0], 35.0), (7, vec![-2.0, 3.0, 6.0, 7.0, 6.0, 3.0, -2.0], 21.0)]
+    {
         let m = window / 2;
         let mut impulse = vec![0.0; 21];
         impulse[10] = 1.0;
@@ -188,24 +197,37 @@ fn savitzky_golay_uses_the_published_weights() {
     }
     // A polynomial of the smoothing order passes unchanged, ends included
     // (Gorry, Anal. Chem. 62, 570 (1990), for the end points).
-    let y: Vec<f64> = (0..30).map(|i| {
-        let x = i as f64;
-        2.0 - 0.5 * x + 0.03 * x * x - 0.001 * x * x * x
-    }).collect();
+    let y: Vec<f64> = (0..30)
+        .map(|i| {
+            let x = i as f64;
+            2.0 - 0.5 * x + 0.03 * x * x - 0.001 * x * x * x
+        })
+        .collect();
     let out = savitzky_golay(&y, 9, 3);
     for (a, b) in out.iter().zip(&y) {
         assert!((a - b).abs() < 1e-10, "{a} vs {b}");
     }
 }
 
-fn demo_with_set(processing: Vec<StepDoc>, extra: Vec<chiroptic::document::DataSetDoc>) -> chiroptic::Result<Vec<chiroptic::data::DataSet>> {
+fn demo_with_set(
+    processing: Vec<StepDoc>,
+    extra: Vec<chiroptic::document::DataSetDoc>,
+) -> chiroptic::Result<Vec<chiroptic::data::DataSet>> {
     let (mut doc, model) = demo();
     let x: Vec<f64> = (0..=100).map(|i| 200.0 + i as f64).collect();
     let y: Vec<f64> = x.iter().map(|v| 10.0 + 0.01 * v).collect();
     let ht: Vec<f64> = x.iter().map(|v| if *v < 210.0 { 800.0 } else { 400.0 }).collect();
     let mut set = data_set_doc(
         "run",
-        &chiroptic::import::Recognised { axis: AxisUnit::Nanometre, x: x.clone(), measured: Measured::Cd(CdUnit::Millidegrees), y, sd: None, ht_v: Some(ht), label: String::new() },
+        &chiroptic::import::Recognised {
+            axis: AxisUnit::Nanometre,
+            x: x.clone(),
+            measured: Measured::Cd(CdUnit::Millidegrees),
+            y,
+            sd: None,
+            ht_v: Some(ht),
+            label: String::new(),
+        },
         SourceDoc::default(),
     );
     set.processing = processing;
@@ -231,7 +253,15 @@ fn processing_steps_do_what_they_say() {
     let bx: Vec<f64> = (0..=50).map(|i| 195.0 + 2.5 * i as f64).collect();
     let blank = data_set_doc(
         "blank",
-        &chiroptic::import::Recognised { axis: AxisUnit::Nanometre, x: bx.clone(), measured: Measured::Cd(CdUnit::Millidegrees), y: bx.iter().map(|v| 0.01 * v).collect(), sd: None, ht_v: None, label: String::new() },
+        &chiroptic::import::Recognised {
+            axis: AxisUnit::Nanometre,
+            x: bx.clone(),
+            measured: Measured::Cd(CdUnit::Millidegrees),
+            y: bx.iter().map(|v| 0.01 * v).collect(),
+            sd: None,
+            ht_v: None,
+            label: String::new(),
+        },
         SourceDoc::default(),
     );
     let s = demo_with_set(vec![StepDoc::SubtractBlank { blank: "blank".into() }], vec![blank.clone()]).expect("valid");
@@ -258,11 +288,23 @@ fn measured_units_convert_through_the_units_module() {
     let (mut doc, model) = demo();
     let set = data_set_doc(
         "run",
-        &chiroptic::import::Recognised { axis: AxisUnit::Nanometre, x: vec![220.0, 221.0], measured: Measured::Cd(CdUnit::Millidegrees), y: vec![10.0, 10.0], sd: None, ht_v: None, label: String::new() },
+        &chiroptic::import::Recognised {
+            axis: AxisUnit::Nanometre,
+            x: vec![220.0, 221.0],
+            measured: Measured::Cd(CdUnit::Millidegrees),
+            y: vec![10.0, 10.0],
+            sd: None,
+            ht_v: None,
+            label: String::new(),
+        },
         SourceDoc::default(),
     );
     doc.data = vec![chiroptic::document::DataSetDoc {
-        conditions: Some(chiroptic::document::ConditionsDoc { concentration_mol_per_l: Some(0.0005), path_length_cm: Some(0.1), temperature_c: Some(20.0) }),
+        conditions: Some(chiroptic::document::ConditionsDoc {
+            concentration_mol_per_l: Some(0.0005),
+            path_length_cm: Some(0.1),
+            temperature_c: Some(20.0),
+        }),
         ..set
     }];
     let s = data_sets(&doc, &model).expect("valid").remove(0);

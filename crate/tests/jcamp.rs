@@ -112,10 +112,7 @@ fn dupinc1_dif_dup() {
     close("x of the max", b.x[at], 445.0, 1e-9);
     assert_eq!(b.x_units.as_deref(), Some("NANOMETERS"));
     assert_eq!(b.y_units.as_deref(), Some("ABSORBANCE"));
-    assert_eq!(
-        b.notes,
-        ["line 8: header MINY says 0.0604 but the smallest Y value is 0.0769; the header value is ignored"]
-    );
+    assert_eq!(b.notes, ["line 8: header MINY says 0.0604 but the smallest Y value is 0.0769; the header value is ignored"]);
     // `$$` comment stripped from a label value (`##JCAMP-DX= 4.24    $$ By DXEDIT ...`).
     assert_eq!(label(&b, "JCAMPDX"), Some("4.24"));
 }
@@ -251,19 +248,7 @@ fn sqz_and_dif_characters_cover_all_digits() {
     // The Y-check line `0@` repeats the last ordinate (0) and adds none.
     assert_eq!(b[0].y, want);
     // DUP counts: A then S..Z, s and multi-digit counts (s0 = 90, S2 = 12).
-    for (dup, count) in [
-        ("S", 1),
-        ("T", 2),
-        ("U", 3),
-        ("V", 4),
-        ("W", 5),
-        ("X", 6),
-        ("Y", 7),
-        ("Z", 8),
-        ("s", 9),
-        ("S2", 12),
-        ("s0", 90),
-    ] {
+    for (dup, count) in [("S", 1), ("T", 2), ("U", 3), ("V", 4), ("W", 5), ("X", 6), ("Y", 7), ("Z", 8), ("s", 9), ("S2", 12), ("s0", 90)] {
         let b = &parse(&xy_file("##DELTAX= 1\n", &format!("0A{dup}\n"))).expect("DUP")[0];
         assert_eq!(b.y, vec![1.0; count], "DUP {dup}");
     }
@@ -342,7 +327,8 @@ fn factors_and_decimal_line_x() {
 
 #[test]
 fn xypoints_pairs() {
-    let text = "##TITLE= pairs\n##XFACTOR= 10\n##YFACTOR= .5\n##NPOINTS= 4\n##FIRSTX= 10\n##XYPOINTS= (XY..XY)\n1,2; 3,4\n5 6 7, ?\n##END=\n";
+    let text =
+        "##TITLE= pairs\n##XFACTOR= 10\n##YFACTOR= .5\n##NPOINTS= 4\n##FIRSTX= 10\n##XYPOINTS= (XY..XY)\n1,2; 3,4\n5 6 7, ?\n##END=\n";
     let b = &parse(text).expect("XYPOINTS")[0];
     assert_eq!(b.x, [10.0, 30.0, 50.0, 70.0]);
     assert_eq!(&b.y[..3], &[1.0, 2.0, 3.0]);
@@ -353,8 +339,7 @@ fn xypoints_pairs() {
     let b = &parse(&text).expect("XYPOINTS")[0];
     assert_eq!(b.x[0], 10.0);
     assert!(
-        b.notes
-            .contains(&"line 5: FIRSTX says -5 but the data begin at 10 (line 8); the data lines are used".to_string()),
+        b.notes.contains(&"line 5: FIRSTX says -5 but the data begin at 10 (line 8); the data lines are used".to_string()),
         "{:?}",
         b.notes
     );
@@ -363,7 +348,8 @@ fn xypoints_pairs() {
 
 #[test]
 fn labels_are_normalised_and_kept_in_order() {
-    let text = "##TITLE= t\n##Data Type= UV/VIS SPECTRUM\n##BLOCK_ID =3\n##$Own-Label= kept\n##DELTAX= 1\n##XYDATA= (X++(Y..Y))\n1 2 3\n##END=\n";
+    let text =
+        "##TITLE= t\n##Data Type= UV/VIS SPECTRUM\n##BLOCK_ID =3\n##$Own-Label= kept\n##DELTAX= 1\n##XYDATA= (X++(Y..Y))\n1 2 3\n##END=\n";
     let b = &parse(text).expect("labels")[0];
     let names: Vec<&str> = b.labels.iter().map(|(l, _)| l.as_str()).collect();
     assert_eq!(names, ["TITLE", "DATATYPE", "BLOCKID", "$OWNLABEL", "DELTAX", "XYDATA"]);
@@ -383,15 +369,12 @@ fn header_disagreements_become_notes() {
     assert_eq!(b.y.len(), 27);
     assert_eq!(b.x[26], 352.0);
     assert!(
-        b.notes
-            .contains(&"line 3: LASTX says 350 but the data end at 352 (line 9); the data lines are used".to_string()),
+        b.notes.contains(&"line 3: LASTX says 350 but the data end at 352 (line 9); the data lines are used".to_string()),
         "{:?}",
         b.notes
     );
     assert!(
-        b.notes.contains(
-            &"line 5: NPOINTS says 25 but the data lines hold 27 points; the data lines are used".to_string()
-        ),
+        b.notes.contains(&"line 5: NPOINTS says 25 but the data lines hold 27 points; the data lines are used".to_string()),
         "{:?}",
         b.notes
     );
@@ -424,11 +407,7 @@ fn a_line_off_the_grid_places_its_own_points() {
     }
     let b = &parse(&xy_file("##DELTAX= 2\n", &data)).expect("decodes")[0];
     assert_eq!(b.y.len(), 39);
-    assert!(
-        has_note(b, "line 8: the line begins at X = 124 but counting points from the start puts it at"),
-        "{:?}",
-        b.notes
-    );
+    assert!(has_note(b, "line 8: the line begins at X = 124 but counting points from the start puts it at"), "{:?}", b.notes);
     assert!(has_note(b, "each line's X is used for its own points"), "{:?}", b.notes);
     assert_eq!(b.x, want_x);
 }
@@ -540,53 +519,21 @@ fn broken_files() {
         "Y-check failed: the line begins with 18 but line 6 ends with 16",
     );
     // 6. A wrong Y-check value.
-    refused(
-        &xy_file("##DELTAX= 1\n", "1A0JJJJ\n5A5JJ\n"),
-        6,
-        "Y-check failed: the line begins with 15 but line 5 ends with 14",
-    );
+    refused(&xy_file("##DELTAX= 1\n", "1A0JJJJ\n5A5JJ\n"), 6, "Y-check failed: the line begins with 15 but line 5 ends with 14");
     // 7. A DIF line followed by a line that starts in DIF form (no Y-check value).
-    refused(
-        &xy_file("##DELTAX= 1\n", "1A0JJ\n3JJ\n"),
-        6,
-        "with no value before it: a line must begin with an absolute Y value",
-    );
+    refused(&xy_file("##DELTAX= 1\n", "1A0JJ\n3JJ\n"), 6, "with no value before it: a line must begin with an absolute Y value");
     // 8. An unknown character.
-    refused(
-        &xy_file("##DELTAX= 1\n", "1A0J#J\n"),
-        5,
-        "unexpected character '#' in XYDATA: expected a number or an ASDF character",
-    );
+    refused(&xy_file("##DELTAX= 1\n", "1A0J#J\n"), 5, "unexpected character '#' in XYDATA: expected a number or an ASDF character");
     // 9. NPOINTS absurd.
-    refused(
-        &xy_file("##NPOINTS= 20000000\n##DELTAX= 1\n", "1 2 3\n"),
-        3,
-        "NPOINTS 20000000 is above the limit of 10,000,000 points",
-    );
-    refused(
-        &xy_file("##NPOINTS= 176.5\n##DELTAX= 1\n", "1 2 3\n"),
-        3,
-        "NPOINTS must be a whole number of points, found \"176.5\"",
-    );
+    refused(&xy_file("##NPOINTS= 20000000\n##DELTAX= 1\n", "1 2 3\n"), 3, "NPOINTS 20000000 is above the limit of 10,000,000 points");
+    refused(&xy_file("##NPOINTS= 176.5\n##DELTAX= 1\n", "1 2 3\n"), 3, "NPOINTS must be a whole number of points, found \"176.5\"");
     // 10. A DUP count absurd.
-    refused(
-        &xy_file("##DELTAX= 1\n", "1A0s9999999\n"),
-        5,
-        "DUP count 99999999 is above the limit of 10,000,000 points",
-    );
+    refused(&xy_file("##DELTAX= 1\n", "1A0s9999999\n"), 5, "DUP count 99999999 is above the limit of 10,000,000 points");
     // 11. DUP counts that add up past the limit over two lines (9,000,000 points each).
     refused(&xy_file("##DELTAX= 1\n", "1A1s000000\n9000001A1s000000\n"), 6, "more than 10,000,000 points");
     // 12. XFACTOR 0, YFACTOR NaN, XFACTOR out of range.
-    refused(
-        &xy_file("##XFACTOR= 0\n##DELTAX= 1\n", "1 2\n"),
-        3,
-        "XFACTOR must be a finite number other than 0, found \"0\"",
-    );
-    refused(
-        &xy_file("##YFACTOR= NaN\n##DELTAX= 1\n", "1 2\n"),
-        3,
-        "YFACTOR must be a finite number other than 0, found \"NaN\"",
-    );
+    refused(&xy_file("##XFACTOR= 0\n##DELTAX= 1\n", "1 2\n"), 3, "XFACTOR must be a finite number other than 0, found \"0\"");
+    refused(&xy_file("##YFACTOR= NaN\n##DELTAX= 1\n", "1 2\n"), 3, "YFACTOR must be a finite number other than 0, found \"NaN\"");
     refused(&xy_file("##XFACTOR= 1e400\n##DELTAX= 1\n", "1 2\n"), 3, "XFACTOR must be a finite number other than 0");
     // 13. XYDATA without data lines.
     refused("##TITLE= none\n##XYDATA= (X++(Y..Y))\n##END=\n", 2, "XYDATA has no data lines before line 3");
@@ -597,11 +544,7 @@ fn broken_files() {
     refused("##TITLE= t\n##XUNITS NANOMETERS\n", 2, "expected '=' after the label ##\"XUNITS NANOMETERS\"");
     refused("##TITLE= t\n##= 3\n", 2, "expected a label name between ## and =");
     // 16. An unsupported table form.
-    refused(
-        "##TITLE= t\n##XYDATA= (X++(R..R))\n1 2\n##END=\n",
-        2,
-        "XYDATA form \"(X++(R..R))\" is not supported: expected (X++(Y..Y))",
-    );
+    refused("##TITLE= t\n##XYDATA= (X++(R..R))\n1 2\n##END=\n", 2, "XYDATA form \"(X++(R..R))\" is not supported: expected (X++(Y..Y))");
     // 17. A new block before the last one ended (not a LINK).
     refused(
         "##TITLE= a\n##DELTAX= 1\n##XYDATA=(X++(Y..Y))\n1 1 2 3\n##TITLE= b\n",
@@ -609,11 +552,7 @@ fn broken_files() {
         "##TITLE= while the block that begins at line 1 is still open: expected ##END= before a new block",
     );
     // 18. A data line without its X.
-    refused(
-        &xy_file("##DELTAX= 1\n", "A12B3\n"),
-        5,
-        "expected the X value (a number) at the start of the data line, found \"A12B3\"",
-    );
+    refused(&xy_file("##DELTAX= 1\n", "A12B3\n"), 5, "expected the X value (a number) at the start of the data line, found \"A12B3\"");
     // 19. A data line with its X only.
     refused(&xy_file("##DELTAX= 1\n", "1 2 3\n100\n"), 6, "expected Y values after the X value");
     // 20. XYPOINTS with half a pair; with a missing X.
@@ -631,21 +570,13 @@ fn broken_files() {
     );
     // 24. A number out of range.
     let huge = format!("1{}", "0".repeat(400));
-    refused(
-        &xy_file("##DELTAX= 1\n", &format!("1 2 {huge}\n")),
-        5,
-        &format!("the number \"1{}...\" is out of range", "0".repeat(23)),
-    );
+    refused(&xy_file("##DELTAX= 1\n", &format!("1 2 {huge}\n")), 5, &format!("the number \"1{}...\" is out of range", "0".repeat(23)));
     // (An exponent out of range is not one: "1e400" is SQZ e400 = -5400.)
     assert_eq!(parse(&xy_file("##DELTAX= 1\n", "1 2 1e400\n")).expect("SQZ")[0].y, [2.0, 1.0, -5400.0]);
     // 25. Digits missing after a sign.
     refused(&xy_file("##DELTAX= 1\n", "1 2+ 3\n"), 5, "expected digits after \"+\"");
     // 26. A file with blocks but no data table.
-    refused(
-        "##TITLE= peaks only\n##PEAK TABLE= (XY..XY)\n1,2\n##END=\n",
-        4,
-        "the file has no ##XYDATA= or ##XYPOINTS= table",
-    );
+    refused("##TITLE= peaks only\n##PEAK TABLE= (XY..XY)\n1,2\n##END=\n", 4, "the file has no ##XYDATA= or ##XYPOINTS= table");
     // 27. Data lines that do not advance in X; one line and no step.
     refused(&xy_file("", "1 1 2\n1 3 4\n"), 5, "the data lines do not advance in X");
     refused(&xy_file("", "1 1 2 3\n"), 4, "cannot place the X values: the data are on one line");

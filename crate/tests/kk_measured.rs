@@ -173,7 +173,11 @@ fn a_far_uv_band_brings_sodium_d_rotation_within_five_percent() {
     let far_uv = Model::from_json(rough).expect("rough band").bands;
     let helped = rotation_from_cd(&set, &far_uv, &na_d).expect("transform")[0];
     let miss = |v: f64| (v - truth).abs() / truth.abs();
-    eprintln!("[α]_D stand-in: truth {truth:e} deg, truncated {alone:e} ({:.0} %), with a far-UV band {helped:e} ({:.1} %)", 100.0 * miss(alone), 100.0 * miss(helped));
+    eprintln!(
+        "[α]_D stand-in: truth {truth:e} deg, truncated {alone:e} ({:.0} %), with a far-UV band {helped:e} ({:.1} %)",
+        100.0 * miss(alone),
+        100.0 * miss(helped)
+    );
     assert!(miss(helped) < 0.05, "with a far-UV band: {:.1} % off", 100.0 * miss(helped));
     assert!(miss(alone) > 0.5, "the truncated transform alone should miss by far more: {:.1} %", 100.0 * miss(alone));
     // The specific rotation follows through the units module.

@@ -60,7 +60,11 @@ fn mean_shape_is_the_nk_transform_of_the_absorption_shape() {
             assert!(
                 (got - want).abs() <= 1e-9 * peak,
                 "{} at {} cm-1 (centre {}, fwhm {}, lorentz {}): {got:e} vs quadrature {want:e}",
-                c.shape, nu, c.center, c.fwhm, c.lorentz
+                c.shape,
+                nu,
+                c.center,
+                c.fwhm,
+                c.lorentz
             );
         }
         // The grid and the whole-grid path give the same numbers.

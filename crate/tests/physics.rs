@@ -7,8 +7,8 @@ use chiroptic::kk;
 use chiroptic::lines::DrudeTerm;
 use chiroptic::lineshape::{gaussian_delta_from_fwhm, Lineshape};
 use chiroptic::units::{
-    self, AxisUnit, CdUnit, OrdUnit, AVOGADRO_PER_MOL, DIPOLE_CONSTANT, ELLIPTICITY_DEG_PER_DELTA_A,
-    LIGHT_CM_PER_S, MOLAR_ELLIPTICITY_PER_DELTA_EPSILON, PLANCK_ERG_S, ROTATORY_CONSTANT,
+    self, AxisUnit, CdUnit, OrdUnit, AVOGADRO_PER_MOL, DIPOLE_CONSTANT, ELLIPTICITY_DEG_PER_DELTA_A, LIGHT_CM_PER_S,
+    MOLAR_ELLIPTICITY_PER_DELTA_EPSILON, PLANCK_ERG_S, ROTATORY_CONSTANT,
 };
 use chiroptic::{evaluate, Model};
 use std::f64::consts::PI;
@@ -42,7 +42,7 @@ fn doc(concentration: f64, path_cm: f64, molar_mass: Option<f64>, bands: Vec<Ban
         view: None,
         data: Vec::new(),
         readings: Vec::new(),
-            fit: None,
+        fit: None,
     }
 }
 
@@ -113,10 +113,7 @@ fn strength_constants_match_quoted_figures() {
 /// (standard optical-activity texts, no local-field factor; from memory).
 fn rosenfeld_molar_rotation(bands: &[(f64, f64)], lambda_nm: f64) -> f64 {
     let k = 96.0 * PI * AVOGADRO_PER_MOL / (PLANCK_ERG_S * LIGHT_CM_PER_S);
-    bands
-        .iter()
-        .map(|(lj, r)| k * r * 1e-40 * lj * lj / (lambda_nm * lambda_nm - lj * lj))
-        .sum()
+    bands.iter().map(|(lj, r)| k * r * 1e-40 * lj * lj / (lambda_nm * lambda_nm - lj * lj)).sum()
 }
 
 #[test]
@@ -152,8 +149,7 @@ fn broad_gaussian_band_exceeds_rosenfeld_by_its_second_moment() {
     for lambda in [5000.0, 1000.0, 589.3, 450.0] {
         let n = nu(lambda);
         let (a, b) = (nj - n, -nj - n);
-        let predicted = (sigma2 * (a.powi(-3) + b.powi(-3)) + 3.0 * sigma2 * sigma2 * (a.powi(-5) + b.powi(-5)))
-            / (1.0 / a + 1.0 / b);
+        let predicted = (sigma2 * (a.powi(-3) + b.powi(-3)) + 3.0 * sigma2 * sigma2 * (a.powi(-5) + b.powi(-5))) / (1.0 / a + 1.0 / b);
         let s = evaluate(&m, &[n]).unwrap();
         let excess = s.ord_in(OrdUnit::MolarRotation).unwrap()[0] / rosenfeld_molar_rotation(&[(lj, r)], lambda) - 1.0;
         assert!(excess > 0.0025, "excess at {lambda} nm is {excess}");

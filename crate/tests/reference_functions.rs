@@ -54,10 +54,7 @@ fn faddeeva_matches_scipy_wofz() {
         if err > worst.0 {
             worst = (err, x, y);
         }
-        assert!(
-            err <= SCIPY_RTOL,
-            "w({x} + {y}i): chiroptic {got}, SciPy {want}, relative error {err:.3e}"
-        );
+        assert!(err <= SCIPY_RTOL, "w({x} + {y}i): chiroptic {got}, SciPy {want}, relative error {err:.3e}");
     }
     eprintln!("faddeeva vs scipy.special.wofz: worst relative error {:.2e} at x={} y={}", worst.0, worst.1, worst.2);
 }

@@ -14,7 +14,9 @@ const REFERENCE: &str = include_str!("../../fixtures/states/states_scipy.csv");
 fn example_document(b: &Broadening) -> Document {
     let conformers = table::parse(EXAMPLE).expect("example reads");
     let bands = states::bands(&conformers, b).expect("bands");
-    let mut doc = Document::from_json(r#"{"chiroptic":1,"sample":{"concentration_mol_per_l":0.001,"path_length_cm":1,"solvent":{"constant":1.0}}}"#).expect("doc");
+    let mut doc =
+        Document::from_json(r#"{"chiroptic":1,"sample":{"concentration_mol_per_l":0.001,"path_length_cm":1,"solvent":{"constant":1.0}}}"#)
+            .expect("doc");
     doc.bands = bands;
     doc
 }
@@ -52,7 +54,13 @@ fn oscillator_and_dipole_strengths_convert_by_the_standard_relation() {
     // f = 4.702e-7 nu[cm^-1] D[debye^2] (common practice; from memory).
     assert!((units::OSCILLATOR_PER_WAVENUMBER_DEBYE2 / 4.702e-7 - 1.0).abs() < 1e-3);
     // And an f read from a list gives D = f / (K nu).
-    let t = states::Transition { energy_ev: 5.0, oscillator: Some(0.2), dipole_debye2: None, rotatory_length: Some(1.0), rotatory_velocity: None };
+    let t = states::Transition {
+        energy_ev: 5.0,
+        oscillator: Some(0.2),
+        dipole_debye2: None,
+        rotatory_length: Some(1.0),
+        rotatory_velocity: None,
+    };
     let nu = AxisUnit::ElectronVolt.to_wavenumber(5.0);
     assert!((states::dipole_strength(&t).expect("d") * 4.702e-7 * nu / 0.2 - 1.0).abs() < 1e-3);
 }
@@ -61,7 +69,12 @@ fn oscillator_and_dipole_strengths_convert_by_the_standard_relation() {
 fn broadened_spectrum_matches_the_numpy_scipy_computation() {
     let doc = example_document(&Broadening::default());
     let model = Model::from_document(&doc).expect("model");
-    let rows: Vec<Vec<f64>> = REFERENCE.lines().filter(|l| !l.starts_with('#')).skip(1).map(|l| l.split(',').map(|v| v.parse().expect("number")).collect()).collect();
+    let rows: Vec<Vec<f64>> = REFERENCE
+        .lines()
+        .filter(|l| !l.starts_with('#'))
+        .skip(1)
+        .map(|l| l.split(',').map(|v| v.parse().expect("number")).collect())
+        .collect();
     let nu: Vec<f64> = rows.iter().map(|r| 1e7 / r[0]).collect();
     let s = evaluate(&model, &nu).expect("spectra");
     let peak = |k: usize| rows.iter().fold(0.0_f64, |m, r| m.max(r[k].abs()));
@@ -97,7 +110,9 @@ fn similarity_is_one_for_the_same_minus_one_for_the_mirror_and_finds_a_shift() {
     let model = Model::from_document(&doc).expect("model");
     let step = 0.005;
     let grid: Vec<f64> = (0..1400).map(|i| 3.0 + step * i as f64).collect();
-    let de = evaluate(&model, &grid.iter().map(|e| AxisUnit::ElectronVolt.to_wavenumber(*e)).collect::<Vec<_>>()).expect("spectra").delta_epsilon;
+    let de = evaluate(&model, &grid.iter().map(|e| AxisUnit::ElectronVolt.to_wavenumber(*e)).collect::<Vec<_>>())
+        .expect("spectra")
+        .delta_epsilon;
     assert!((overlap(&de, &de) - 1.0).abs() < 1e-12);
     let mirror: Vec<f64> = de.iter().map(|v| -v).collect();
     assert!((overlap(&de, &mirror) + 1.0).abs() < 1e-12);

@@ -34,10 +34,16 @@ pub fn run(start: &Path, flags: &ColumnFlags, o: &FitOptions, report_out: &mut S
     let (mut doc, _) = load(start)?;
     for (i, path) in o.data.iter().enumerate() {
         let table = read_table(path, flags.block)?;
-        let r = table.recognise(&ColumnChoice::default()).map_err(|e| bad(&path.display().to_string(), ErrorKind::MissingField, e.to_string()))?;
+        let r = table
+            .recognise(&ColumnChoice::default())
+            .map_err(|e| bad(&path.display().to_string(), ErrorKind::MissingField, e.to_string()))?;
         let name = path.file_stem().map(|s| s.to_string_lossy().into_owned()).unwrap_or_else(|| format!("data {}", i + 1));
         let name = if doc.data.iter().any(|d| d.name == name) { format!("{name} ({})", i + 1) } else { name };
-        doc.data.push(data_set_doc(&name, &r, SourceDoc { file: path.display().to_string(), format: table.format.into(), metadata: table.metadata.clone() }));
+        doc.data.push(data_set_doc(
+            &name,
+            &r,
+            SourceDoc { file: path.display().to_string(), format: table.format.into(), metadata: table.metadata.clone() },
+        ));
     }
     let mut settings = doc.fit.clone().unwrap_or_default();
     if let Some(free) = &o.free {
@@ -92,7 +98,12 @@ pub fn table(r: &FitReportDoc) -> String {
         };
         let se = match (p.mode.as_str(), se) {
             ("fixed", _) => "fixed".to_string(),
-            (_, Some(s)) => format!("± {}{}{}", significant(s), if p.mode == "linked" { " (linked)" } else { "" }, if p.at_bound { " (at its bound)" } else { "" }),
+            (_, Some(s)) => format!(
+                "± {}{}{}",
+                significant(s),
+                if p.mode == "linked" { " (linked)" } else { "" },
+                if p.at_bound { " (at its bound)" } else { "" }
+            ),
             (_, None) => "undetermined".to_string(),
         };
         out.push_str(&format!("{name:<44} {:>16}   {se}\n", significant(value)));

@@ -46,12 +46,18 @@ fn choice(flags: &ColumnFlags) -> Result<ColumnChoice, Failure> {
     let axis = flags
         .x_unit
         .as_deref()
-        .map(|u| AxisUnit::parse(u).ok_or_else(|| bad("--x-unit", ErrorKind::UnknownName, format!("unknown unit \"{u}\" (use nm, cm-1 or ev)"))))
+        .map(|u| {
+            AxisUnit::parse(u).ok_or_else(|| bad("--x-unit", ErrorKind::UnknownName, format!("unknown unit \"{u}\" (use nm, cm-1 or ev)")))
+        })
         .transpose()?;
     let measured = match (&flags.quantity, &flags.unit) {
         (None, None) => None,
         (Some(q), Some(u)) => Some(Measured::parse(q, u).ok_or_else(|| {
-            bad("--quantity/--data-unit", ErrorKind::UnknownName, format!("\"{q}\" in \"{u}\" is not known (cd: {}; ord: {}; absorption: {})", cd_keys(), ord_keys(), abs_keys()))
+            bad(
+                "--quantity/--data-unit",
+                ErrorKind::UnknownName,
+                format!("\"{q}\" in \"{u}\" is not known (cd: {}; ord: {}; absorption: {})", cd_keys(), ord_keys(), abs_keys()),
+            )
         })?),
         _ => return Err(bad("--quantity/--data-unit", ErrorKind::MissingField, "give both --quantity and --data-unit")),
     };
@@ -99,7 +105,11 @@ pub fn import(path: &Path, flags: &ColumnFlags, out: &mut Vec<u8>, notes: &mut V
     let table = read_table(path, flags.block)?;
     let choice = choice(flags)?;
     let axis = choice.axis.or(table.axis).ok_or_else(|| {
-        bad(&origin, ErrorKind::MissingField, format!("cannot tell the axis unit from \"{}\"; name it with --x-unit nm|cm-1|ev", table.x_label))
+        bad(
+            &origin,
+            ErrorKind::MissingField,
+            format!("cannot tell the axis unit from \"{}\"; name it with --x-unit nm|cm-1|ev", table.x_label),
+        )
     })?;
     notes.extend(table.notes.iter().cloned());
     let first_measured = table.columns.iter().find_map(|c| match c.kind {
@@ -150,7 +160,7 @@ fn notional_document() -> Document {
         view: None,
         data: Vec::new(),
         readings: Vec::new(),
-            fit: None,
+        fit: None,
     }
 }
 
@@ -175,10 +185,12 @@ pub fn kk(path: &Path, flags: &ColumnFlags, o: &KkOptions, out: &mut Vec<u8>) ->
             (d, m)
         }
     };
-    doc.data = vec![data_set_doc("measured", &recognised, SourceDoc { file: origin.clone(), format: table.format.into(), metadata: Vec::new() })];
+    doc.data =
+        vec![data_set_doc("measured", &recognised, SourceDoc { file: origin.clone(), format: table.format.into(), metadata: Vec::new() })];
     let set = data_sets(&doc, &model).map_err(|e| Failure::input(&origin, e))?.remove(0);
 
-    let unit = AxisUnit::parse(o.unit).ok_or_else(|| bad("--unit", ErrorKind::UnknownName, format!("unknown unit \"{}\" (use nm, cm-1 or ev)", o.unit)))?;
+    let unit = AxisUnit::parse(o.unit)
+        .ok_or_else(|| bad("--unit", ErrorKind::UnknownName, format!("unknown unit \"{}\" (use nm, cm-1 or ev)", o.unit)))?;
     let (axis, x): (AxisUnit, Vec<f64>) = if o.lines {
         (AxisUnit::Nanometre, STANDARD_LINES.iter().map(|l| l.wavelength_nm).collect())
     } else {

@@ -35,7 +35,11 @@ pub fn run_states(o: &StatesOptions, notes: &mut String) -> Result<(), Failure> 
         let origin = path.display().to_string();
         let meta = std::fs::metadata(path).map_err(|e| bad(&origin, ErrorKind::Io, format!("cannot read: {e}")))?;
         if meta.len() > crate::import::MAX_IMPORT_BYTES {
-            return Err(bad(&origin, ErrorKind::TooLarge, format!("file is {} bytes; the limit is {}", meta.len(), crate::import::MAX_IMPORT_BYTES)));
+            return Err(bad(
+                &origin,
+                ErrorKind::TooLarge,
+                format!("file is {} bytes; the limit is {}", meta.len(), crate::import::MAX_IMPORT_BYTES),
+            ));
         }
         let text = std::fs::read_to_string(path).map_err(|e| bad(&origin, ErrorKind::Io, format!("cannot read: {e}")))?;
         conformers.extend(table::parse(&text).map_err(|e| bad(&origin, ErrorKind::Syntax, e.to_string()))?);
@@ -64,11 +68,20 @@ pub fn run_states(o: &StatesOptions, notes: &mut String) -> Result<(), Failure> 
     }
     let bands = states::bands(&conformers, &b).map_err(|e| Failure::input("broadening", e))?;
     if bands.len() > crate::document::MAX_BANDS {
-        return Err(bad("states", ErrorKind::TooLarge, format!("{} transitions; a document holds at most {}", bands.len(), crate::document::MAX_BANDS)));
+        return Err(bad(
+            "states",
+            ErrorKind::TooLarge,
+            format!("{} transitions; a document holds at most {}", bands.len(), crate::document::MAX_BANDS),
+        ));
     }
     let doc = Document {
         chiroptic: crate::document::FORMAT_VERSION,
-        title: format!("computed transitions ({}), {:.2} eV FWHM {}", o.files.iter().map(|p| p.display().to_string()).collect::<Vec<_>>().join(", "), fwhm, o.shape),
+        title: format!(
+            "computed transitions ({}), {:.2} eV FWHM {}",
+            o.files.iter().map(|p| p.display().to_string()).collect::<Vec<_>>().join(", "),
+            fwhm,
+            o.shape
+        ),
         sample: SampleDoc {
             concentration_mol_per_l: o.concentration,
             path_length_cm: 1.0,
@@ -84,7 +97,8 @@ pub fn run_states(o: &StatesOptions, notes: &mut String) -> Result<(), Failure> 
     };
     crate::model::Model::from_document(&doc).map_err(|e| Failure::input("broadened model", e))?;
     notes.push_str("note: a truncated sum over computed states is a rough estimate of [α]_D; compare the CD, not the rotation alone\n");
-    std::fs::write(o.output, doc.to_json_pretty() + "\n").map_err(|e| bad(&o.output.display().to_string(), ErrorKind::Io, format!("cannot write: {e}")))
+    std::fs::write(o.output, doc.to_json_pretty() + "\n")
+        .map_err(|e| bad(&o.output.display().to_string(), ErrorKind::Io, format!("cannot write: {e}")))
 }
 
 pub struct CompareOptions<'a> {
@@ -116,7 +130,7 @@ pub fn run_compare(doc_path: &Path, data_path: &Path, flags: &ColumnFlags, o: &C
     let (e_min, e_max) = (ev.iter().copied().fold(f64::INFINITY, f64::min), ev.iter().copied().fold(f64::NEG_INFINITY, f64::max));
     let e_lo = e_min.max(if hi_nm.is_finite() { to_ev(hi_nm) } else { e_min });
     let e_hi = e_max.min(if lo_nm.is_finite() { to_ev(lo_nm) } else { e_max });
-    if !(e_hi > e_lo) {
+    if e_hi.is_nan() || e_lo.is_nan() || e_hi <= e_lo {
         return Err(bad("--from/--to", ErrorKind::OutOfRange, "the range leaves no measured point"));
     }
     let count = ((e_hi - e_lo) / COMPARE_STEP_EV).ceil() as usize + 1;

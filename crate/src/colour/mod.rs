@@ -138,11 +138,7 @@ pub struct StripEntry {
 /// `samples` evenly spaced angles (both ends included).
 pub fn strip_optics(optics: &Optics, illuminant: Illuminant, samples: usize) -> Result<Vec<StripEntry>> {
     if !(2..=MAX_STRIP_SAMPLES).contains(&samples) {
-        return Err(Error::new(
-            ErrorKind::OutOfRange,
-            "samples",
-            format!("a strip has 2 to {MAX_STRIP_SAMPLES} angles (got {samples})"),
-        ));
+        return Err(Error::new(ErrorKind::OutOfRange, "samples", format!("a strip has 2 to {MAX_STRIP_SAMPLES} angles (got {samples})")));
     }
     let weights = Weights::new(illuminant);
     // The light after the sample is the same for every angle.

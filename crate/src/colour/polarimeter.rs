@@ -48,10 +48,8 @@ impl Optics {
         let s = evaluate(model, &nu)?;
         // Dn and Dk straight from the spectra: n_L - n_R would lose digits
         // to the solvent's index for dilute samples.
-        let chi_per_cm: Vec<Complex64> =
-            (0..COUNT).map(|i| Complex64::new(s.delta_n[i], s.delta_k[i]) * (PI * nu[i])).collect();
-        let attenuation_per_cm: Vec<f64> =
-            (0..COUNT).map(|i| 2.0 * PI * nu[i] * (s.k_left[i] + s.k_right[i]) / 2.0).collect();
+        let chi_per_cm: Vec<Complex64> = (0..COUNT).map(|i| Complex64::new(s.delta_n[i], s.delta_k[i]) * (PI * nu[i])).collect();
+        let attenuation_per_cm: Vec<f64> = (0..COUNT).map(|i| 2.0 * PI * nu[i] * (s.k_left[i] + s.k_right[i]) / 2.0).collect();
         let finite = chi_per_cm.iter().all(|c| c.re.is_finite() && c.im.is_finite())
             && attenuation_per_cm.iter().all(|a| a.is_finite() && *a >= 0.0);
         if !finite {

@@ -196,11 +196,7 @@ impl DepthTable {
         let s_max = 2.0 * radius * (d * d + 0.25 * l * l + radius * radius).sqrt() / d;
         let alpha: Vec<f64> = optics.attenuation_per_cm.iter().map(|a| 2.0 * a).collect();
         let worst = alpha.iter().fold(0.0_f64, |m, a| m.max(a * s_max));
-        let levels = if worst < 1e-9 {
-            1
-        } else {
-            ((worst / ABSORPTION_STEP).ceil() as usize + 1).clamp(2, MAX_ABSORPTION_LEVELS)
-        };
+        let levels = if worst < 1e-9 { 1 } else { ((worst / ABSORPTION_STEP).ceil() as usize + 1).clamp(2, MAX_ABSORPTION_LEVELS) };
         let ds = if levels > 1 { s_max / (levels - 1) as f64 } else { 0.0 };
         // Rayleigh scattering: nu^4, relative to 560 nm to keep numbers of order one.
         let nu_ref = AxisUnit::Nanometre.to_wavenumber(560.0);
@@ -260,8 +256,7 @@ impl DepthTable {
         }
         let (m, fs) = split(s / self.ds, self.levels);
         let (a, b, c, e) = (self.cell(k, m), self.cell(k + 1, m), self.cell(k, m + 1), self.cell(k + 1, m + 1));
-        let (wa, wb, wc, we) =
-            (weight * (1.0 - fz) * (1.0 - fs), weight * fz * (1.0 - fs), weight * (1.0 - fz) * fs, weight * fz * fs);
+        let (wa, wb, wc, we) = (weight * (1.0 - fz) * (1.0 - fs), weight * fz * (1.0 - fs), weight * (1.0 - fz) * fs, weight * fz * fs);
         for j in 0..TERMS {
             acc[j] += wa * a[j] + wb * b[j] + wc * c[j] + we * e[j];
         }

@@ -8,11 +8,7 @@
 
 /// XYZ -> linear sRGB, IEC 61966-2-1:1999 equation (F.7) (the rounded
 /// four-digit matrix the standard prints).
-const XYZ_TO_LINEAR: [[f64; 3]; 3] = [
-    [3.2406, -1.5372, -0.4986],
-    [-0.9689, 1.8758, 0.0415],
-    [0.0557, -0.2040, 1.0570],
-];
+const XYZ_TO_LINEAR: [[f64; 3]; 3] = [[3.2406, -1.5372, -0.4986], [-0.9689, 1.8758, 0.0415], [0.0557, -0.2040, 1.0570]];
 
 /// Linear sRGB, not clipped.
 pub fn linear_from_xyz(xyz: [f64; 3]) -> [f64; 3] {

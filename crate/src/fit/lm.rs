@@ -205,7 +205,7 @@ fn cholesky(a: &[f64], n: usize) -> Option<Vec<f64>> {
                 s -= l[i * n + k] * l[j * n + k];
             }
             if i == j {
-                if !(s > 0.0) || !s.is_finite() {
+                if s.is_nan() || s <= 0.0 || !s.is_finite() {
                     return None;
                 }
                 l[i * n + i] = s.sqrt();

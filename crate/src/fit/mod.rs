@@ -92,7 +92,11 @@ fn band_index(doc: &Document, name: &str) -> Option<usize> {
 /// "BAND.field" -> (band, field).
 fn parse_parameter(doc: &Document, text: &str, at: &str) -> Result<(usize, Field)> {
     let (band, field) = text.rsplit_once('.').ok_or_else(|| {
-        Error::new(ErrorKind::Syntax, at, format!("\"{text}\" should be BAND.FIELD, e.g. \"{}.center_nm\"", doc.bands.first().map(|b| b.name.as_str()).unwrap_or("B1")))
+        Error::new(
+            ErrorKind::Syntax,
+            at,
+            format!("\"{text}\" should be BAND.FIELD, e.g. \"{}.center_nm\"", doc.bands.first().map(|b| b.name.as_str()).unwrap_or("B1")),
+        )
     })?;
     let b = band_index(doc, band).ok_or_else(|| Error::new(ErrorKind::UnknownName, at, format!("no band named \"{band}\"")))?;
     let f = Field::parse(field).ok_or_else(|| {
@@ -146,7 +150,10 @@ fn parameters(doc: &Document, model: &Model, settings: &FitDoc, sets: &[DataSet]
             .free
             .iter()
             .enumerate()
-            .map(|(i, f)| Field::parse(f).ok_or_else(|| Error::new(ErrorKind::UnknownName, format!("fit.free[{i}]"), format!("unknown field \"{f}\""))))
+            .map(|(i, f)| {
+                Field::parse(f)
+                    .ok_or_else(|| Error::new(ErrorKind::UnknownName, format!("fit.free[{i}]"), format!("unknown field \"{f}\"")))
+            })
             .collect::<Result<_>>()?
     };
     let has_absorption = sets.iter().any(|s| matches!(s.measured, Measured::Absorption(_)));
@@ -182,13 +189,17 @@ fn parameters(doc: &Document, model: &Model, settings: &FitDoc, sets: &[DataSet]
         for p in out.iter_mut().filter(|p| matches!(p.target, Target::Dipole(_))) {
             p.mode = Mode::Fixed;
         }
-        warnings.push("D is not determined by CD and ORD alone (no absorption data): every dipole strength is held at its start value".into());
+        warnings
+            .push("D is not determined by CD and ORD alone (no absorption data): every dipole strength is held at its start value".into());
     }
     // With D fixed, |g| = 4|R|/D <= 2 bounds R.
-    let dipoles: Vec<(usize, f64, bool)> = out.iter().filter_map(|p| match p.target {
-        Target::Dipole(b) => Some((b, p.start, matches!(p.mode, Mode::Fixed))),
-        _ => None,
-    }).collect();
+    let dipoles: Vec<(usize, f64, bool)> = out
+        .iter()
+        .filter_map(|p| match p.target {
+            Target::Dipole(b) => Some((b, p.start, matches!(p.mode, Mode::Fixed))),
+            _ => None,
+        })
+        .collect();
     for (b, d, fixed) in dipoles {
         // |R| <= D / (the smallest D that R = 1 allows).
         let limit = d / crate::model::dissymmetry_limited_dipole_strength(1.0);
@@ -207,10 +218,20 @@ fn parameters(doc: &Document, model: &Model, settings: &FitDoc, sets: &[DataSet]
     }
     for (s, set) in sets.iter().enumerate() {
         if settings.offsets {
-            out.push(Parameter { target: Target::Offset(s), name: format!("{}.offset", set.name), start: 0.0, mode: Mode::Free { min: None, max: None } });
+            out.push(Parameter {
+                target: Target::Offset(s),
+                name: format!("{}.offset", set.name),
+                start: 0.0,
+                mode: Mode::Free { min: None, max: None },
+            });
         }
         if settings.scales {
-            out.push(Parameter { target: Target::Scale(s), name: format!("{}.scale", set.name), start: 1.0, mode: Mode::Free { min: Some(0.0), max: None } });
+            out.push(Parameter {
+                target: Target::Scale(s),
+                name: format!("{}.scale", set.name),
+                start: 1.0,
+                mode: Mode::Free { min: Some(0.0), max: None },
+            });
         }
     }
     Ok(out)
@@ -220,7 +241,11 @@ fn parameter_mode(doc: &Document, model: &Model, p: &FitParameterDoc, field: Fie
     if let Some(link) = &p.link {
         let (b, f) = parse_parameter(doc, &link.to, &format!("{at}.link.to"))?;
         if f != field {
-            return Err(Error::new(ErrorKind::OutOfRange, format!("{at}.link.to"), format!("a {} can only be linked to another {}", field.key(), field.key())));
+            return Err(Error::new(
+                ErrorKind::OutOfRange,
+                format!("{at}.link.to"),
+                format!("a {} can only be linked to another {}", field.key(), field.key()),
+            ));
         }
         for (name, v) in [("factor", link.factor), ("offset", link.offset)] {
             crate::error::finite(&format!("{at}.link.{name}"), v)?;
@@ -329,12 +354,16 @@ fn coverage_warnings(doc: &Document, model: &Model, sets: &[DataSet], warnings: 
     for (b, band) in model.bands.iter().enumerate() {
         let center = band.lineshape.center();
         let fwhm = doc.bands[b].fwhm_cm1;
-        let seen = sets.iter().filter(|s| !matches!(s.measured, Measured::Ord(_))).any(|s| {
-            s.x.iter().any(|x| (s.axis.to_wavenumber(*x) - center).abs() <= fwhm)
-        });
+        let seen = sets
+            .iter()
+            .filter(|s| !matches!(s.measured, Measured::Ord(_)))
+            .any(|s| s.x.iter().any(|x| (s.axis.to_wavenumber(*x) - center).abs() <= fwhm));
         if !seen {
             warnings.push(if has_ord {
-                format!("band {} lies outside every CD and absorption set's range: only its tail in the rotation constrains it", doc.bands[b].name)
+                format!(
+                    "band {} lies outside every CD and absorption set's range: only its tail in the rotation constrains it",
+                    doc.bands[b].name
+                )
             } else {
                 format!("band {} lies outside every data set's range: the data cannot constrain it", doc.bands[b].name)
             });
@@ -365,7 +394,13 @@ pub struct Starts {
 /// Local fits from the given start and from `starts - 1` perturbed starts
 /// (each free value moved by up to 20 % of itself, or of its width for a
 /// centre, kept inside its bounds), on two threads natively.
-pub fn multistart(problem: &FitProblem, starts: usize, max_iterations: usize, seed: u64, progress: &mut dyn FnMut(usize, usize, f64) -> bool) -> Starts {
+pub fn multistart(
+    problem: &FitProblem,
+    starts: usize,
+    max_iterations: usize,
+    seed: u64,
+    progress: &mut dyn FnMut(usize, usize, f64) -> bool,
+) -> Starts {
     let first = problem.layout.start();
     let mut rng = SmallRng::seed_from_u64(seed);
     let mut points = vec![first.clone()];
@@ -406,7 +441,9 @@ fn perturbed(problem: &FitProblem, rng: &mut SmallRng) -> Vec<f64> {
         .map(|(i, t)| {
             let p = &layout.parameters[*i];
             let scale = match p.target {
-                Target::Center(b) => layout.parameters.iter().find(|q| q.target == Target::Fwhm(b)).map(|q| q.start).unwrap_or(p.start.abs() * 0.05),
+                Target::Center(b) => {
+                    layout.parameters.iter().find(|q| q.target == Target::Fwhm(b)).map(|q| q.start).unwrap_or(p.start.abs() * 0.05)
+                }
                 Target::Shift | Target::Offset(_) => 0.0,
                 _ => p.start.abs(),
             };
@@ -420,7 +457,15 @@ fn perturbed(problem: &FitProblem, rng: &mut SmallRng) -> Vec<f64> {
         .collect()
 }
 
-fn report(doc: &Document, problem: &FitProblem, sets: &[DataSet], best: &lm::Outcome, outcome: &Starts, relative: bool, mut warnings: Vec<String>) -> FitReportDoc {
+fn report(
+    doc: &Document,
+    problem: &FitProblem,
+    sets: &[DataSet],
+    best: &lm::Outcome,
+    outcome: &Starts,
+    relative: bool,
+    mut warnings: Vec<String>,
+) -> FitReportDoc {
     let values = problem.layout.values(&best.u);
     let (mut r, mut jv) = (Vec::new(), Vec::new());
     problem.value_jacobian(&values, &mut r, &mut jv);
@@ -452,7 +497,8 @@ fn report(doc: &Document, problem: &FitProblem, sets: &[DataSet], best: &lm::Out
     let scale = if relative { reduced } else { 1.0 };
     let se: Vec<f64> = (0..k).map(|p| covariance.as_ref().map(|c| (c[p * k + p] * scale).sqrt()).unwrap_or(f64::NAN)).collect();
     if covariance.is_none() {
-        warnings.push("the parameters are not all determined by the data (the normal matrix is singular): standard errors are missing".into());
+        warnings
+            .push("the parameters are not all determined by the data (the normal matrix is singular): standard errors are missing".into());
     }
     let mut names = Vec::new();
     let mut correlations = vec![0.0; k * k];

@@ -137,7 +137,7 @@ impl Layout {
         for (i, p) in parameters.iter().enumerate() {
             if let Mode::Free { min, max } = p.mode {
                 if let (Some(lo), Some(hi)) = (min, max) {
-                    if !(lo < hi) {
+                    if lo.is_nan() || hi.is_nan() || lo >= hi {
                         return Err(format!("{}: the lower bound {lo} must be below the upper bound {hi}", p.name));
                     }
                 }
@@ -157,9 +157,10 @@ impl Layout {
                             // value(at) = f * value(to) + o
                             offset += factor * o;
                             factor *= f;
-                            at = parameters.iter().position(|p| p.target == to).ok_or_else(|| {
-                                format!("{}: linked to a parameter that is not in the fit", parameters[i].name)
-                            })?;
+                            at = parameters
+                                .iter()
+                                .position(|p| p.target == to)
+                                .ok_or_else(|| format!("{}: linked to a parameter that is not in the fit", parameters[i].name))?;
                         }
                         Mode::Free { .. } => break,
                         Mode::Fixed => return Err(format!("{}: linked to a fixed parameter (fix it instead)", parameters[i].name)),

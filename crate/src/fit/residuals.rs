@@ -248,7 +248,11 @@ fn observable_factor(measured: Measured, nu: f64, ctx: &units::SampleContext) ->
         Measured::Cd(u) => {
             // De = epsilon_from_k(chiral_scale R s.im)
             let de_per = epsilon_from_k(chiral_scale(c) * units::ESU2_CM2_PER_ROTATORY_UNIT, nu, c);
-            let unit_per_de = if u == CdUnit::Dissymmetry { return Err("g cannot be fitted".into()) } else { u.from_delta_epsilon(1.0, f64::NAN, ctx).map_err(|e| e.0)? };
+            let unit_per_de = if u == CdUnit::Dissymmetry {
+                return Err("g cannot be fitted".into());
+            } else {
+                u.from_delta_epsilon(1.0, f64::NAN, ctx).map_err(|e| e.0)?
+            };
             (de_per * unit_per_de, Part::ChiralIm)
         }
         Measured::Ord(u) => {

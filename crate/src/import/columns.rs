@@ -148,9 +148,7 @@ fn measured(n: &str, u: &str) -> Option<Measured> {
         }
         "[α]" | "[alpha]" | "specificrotation" => Some(Measured::Ord(OrdUnit::SpecificRotation)),
         "[φ]" | "[phi]" | "[Φ]" | "molarrotation" => Some(Measured::Ord(OrdUnit::MolarRotation)),
-        "absorbance" | "abs" | "a" | "od" | "opticaldensity" => {
-            u.is_empty().then_some(Measured::Absorption(AbsorptionUnit::Absorbance))
-        }
+        "absorbance" | "abs" | "a" | "od" | "opticaldensity" => u.is_empty().then_some(Measured::Absorption(AbsorptionUnit::Absorbance)),
         "ε" | "epsilon" | "molarabsorptivity" | "molarabsorptioncoefficient" | "extinctioncoefficient" => {
             Some(Measured::Absorption(AbsorptionUnit::MolarAbsorption))
         }

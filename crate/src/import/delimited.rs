@@ -139,20 +139,18 @@ fn score(convention: &Convention, sample: &[&str]) -> (usize, usize) {
 /// Reads a delimited table; the first column is the spectral axis.
 pub fn parse(text: &str) -> Result<Table, ImportError> {
     if text.len() as u64 > MAX_IMPORT_BYTES {
-        return Err(ImportError::whole(format!(
-            "the file is {} bytes; the limit is {MAX_IMPORT_BYTES}",
-            text.len()
-        )));
+        return Err(ImportError::whole(format!("the file is {} bytes; the limit is {MAX_IMPORT_BYTES}", text.len())));
     }
     if text.contains('\0') {
         return Err(ImportError::whole("the file holds binary data (a NUL byte), not text"));
     }
     let all = lines(text);
     let sample: Vec<&str> = all.iter().copied().filter(|l| l.bytes().any(|b| b.is_ascii_digit())).take(SNIFF_LINES).collect();
-    let (convention, (rows, width)) = CONVENTIONS
-        .iter()
-        .map(|c| (*c, score(c, &sample)))
-        .fold((CONVENTIONS[0], (0, 0)), |best, cand| if cand.1 .0 > best.1 .0 { cand } else { best });
+    let (convention, (rows, width)) =
+        CONVENTIONS
+            .iter()
+            .map(|c| (*c, score(c, &sample)))
+            .fold((CONVENTIONS[0], (0, 0)), |best, cand| if cand.1 .0 > best.1 .0 { cand } else { best });
     if rows == 0 {
         return Err(ImportError::whole(
             "no table of numbers found: expected lines of two or more numbers (axis, then values) separated by commas, semicolons, tabs or spaces",
@@ -284,12 +282,7 @@ fn check_axis(x: &[f64], all: &[&str], start: usize, conforming: &dyn Fn(&str) -
             let line = data_lines.get(k).map(|i| i + 1).unwrap_or(0);
             return Err(ImportError::at(
                 line,
-                format!(
-                    "the axis must {} throughout; {} follows {}",
-                    if rising { "rise" } else { "fall" },
-                    x[k],
-                    x[k - 1]
-                ),
+                format!("the axis must {} throughout; {} follows {}", if rising { "rise" } else { "fall" }, x[k], x[k - 1]),
             ));
         }
     }
@@ -305,13 +298,7 @@ fn header_labels(convention: &Convention, line: &str, width: usize) -> Option<Ve
     }
     let mut fields: Vec<String> = convention.fields(line).iter().map(|f| f.trim().to_string()).collect();
     if convention.delimiter == Delimiter::Whitespace && fields.len() != width {
-        fields = line
-            .split('\t')
-            .flat_map(|part| part.split("  "))
-            .map(str::trim)
-            .filter(|f| !f.is_empty())
-            .map(str::to_string)
-            .collect();
+        fields = line.split('\t').flat_map(|part| part.split("  ")).map(str::trim).filter(|f| !f.is_empty()).map(str::to_string).collect();
     }
     (fields.len() == width).then_some(fields)
 }

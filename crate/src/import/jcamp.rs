@@ -144,10 +144,7 @@ fn strip_comment(line: &str) -> &str {
 
 /// Label as the standard compares them: case, spaces, '-', '/' and '_' ignored.
 fn normalise_label(raw: &str) -> String {
-    raw.chars()
-        .filter(|c| !(c.is_whitespace() || matches!(c, '-' | '/' | '_')))
-        .map(|c| c.to_ascii_uppercase())
-        .collect()
+    raw.chars().filter(|c| !(c.is_whitespace() || matches!(c, '-' | '/' | '_'))).map(|c| c.to_ascii_uppercase()).collect()
 }
 
 /// A short excerpt of user text for a message.
@@ -332,13 +329,9 @@ impl Reader {
             "END" => self.end(no),
             _ => {
                 let Some(open) = self.open.last_mut() else {
-                    return err(
-                        no,
-                        format!("##{}= outside a block: expected ##TITLE= to begin one", rest[..eq].trim()),
-                    );
+                    return err(no, format!("##{}= outside a block: expected ##TITLE= to begin one", rest[..eq].trim()));
                 };
-                let form: String =
-                    value.chars().filter(|c| !c.is_whitespace()).collect::<String>().to_ascii_uppercase();
+                let form: String = value.chars().filter(|c| !c.is_whitespace()).collect::<String>().to_ascii_uppercase();
                 let is_xy = name == "XYDATA";
                 let is_points = name == "XYPOINTS";
                 if is_xy || is_points {
@@ -352,27 +345,15 @@ impl Reader {
                         );
                     }
                     if is_xy && form != "(X++(Y..Y))" {
-                        return err(
-                            no,
-                            format!("XYDATA form {} is not supported: expected (X++(Y..Y))", excerpt(&value)),
-                        );
+                        return err(no, format!("XYDATA form {} is not supported: expected (X++(Y..Y))", excerpt(&value)));
                     }
                     if is_points && form != "(XY..XY)" {
-                        return err(
-                            no,
-                            format!("XYPOINTS form {} is not supported: expected (XY..XY)", excerpt(&value)),
-                        );
+                        return err(no, format!("XYPOINTS form {} is not supported: expected (XY..XY)", excerpt(&value)));
                     }
                     open.data = Some(if is_xy {
                         Data::Xy(XyData { label_line: no, lines: Vec::new(), y: Vec::new(), pending_check: None })
                     } else {
-                        Data::Points(PointsData {
-                            label_line: no,
-                            first_line: 0,
-                            last_line: no,
-                            x: Vec::new(),
-                            y: Vec::new(),
-                        })
+                        Data::Points(PointsData { label_line: no, first_line: 0, last_line: no, x: Vec::new(), y: Vec::new() })
                     });
                     open.labels.push(Label { line: no, name, value });
                     open.section = Section::Data;
@@ -409,8 +390,7 @@ impl Reader {
         if let Some((line, value)) = link_blocks {
             let said = parse_number(&value, true).filter(|v| v.fract() == 0.0 && *v >= 0.0);
             if said != Some(child_count as f64) {
-                let note =
-                    format!("line {line}: BLOCKS says {} but the LINK block holds {child_count} blocks", value.trim());
+                let note = format!("line {line}: BLOCKS says {} but the LINK block holds {child_count} blocks", value.trim());
                 for i in children {
                     if let Some(b) = self.out.get_mut(i) {
                         b.notes.push(note.clone());
@@ -592,13 +572,7 @@ struct Scanned {
 /// Decodes one XYDATA line into `out` (cleared first): the abscissa, and
 /// every ordinate as written (the Y-check value included). With `exponent`
 /// the line is read as plain numbers only, and `None` says it is not that.
-fn scan_xy_line(
-    s: &[u8],
-    exponent: bool,
-    no: usize,
-    budget: usize,
-    out: &mut Vec<f64>,
-) -> Result<Option<Scanned>, JcampError> {
+fn scan_xy_line(s: &[u8], exponent: bool, no: usize, budget: usize, out: &mut Vec<f64>) -> Result<Option<Scanned>, JcampError> {
     out.clear();
     let mut i = 0;
     while matches!(s.get(i), Some(b' ' | b'\t')) {
@@ -606,10 +580,7 @@ fn scan_xy_line(
     }
     if !matches!(s.get(i), Some(b'+' | b'-' | b'.' | b'0'..=b'9')) {
         let found = String::from_utf8_lossy(&s[i..]).into_owned();
-        return err(
-            no,
-            format!("expected the X value (a number) at the start of the data line, found {}", excerpt(&found)),
-        );
+        return err(no, format!("expected the X value (a number) at the start of the data line, found {}", excerpt(&found)));
     }
     let (x, j) = affn_at(s, i, exponent, no)?;
     let unit = written_precision(std::str::from_utf8(&s[i..j]).unwrap_or(""));
@@ -664,10 +635,7 @@ fn scan_xy_line(
                     );
                 }
                 if current.is_nan() {
-                    return err(
-                        no,
-                        "a DIF value follows the missing value '?': there is no value to add the difference to",
-                    );
+                    return err(no, "a DIF value follows the missing value '?': there is no value to add the difference to");
                 }
                 current += d;
                 if !current.is_finite() {
@@ -709,10 +677,7 @@ fn scan_xy_line(
                 i = j;
             }
             _ => {
-                let ch = std::str::from_utf8(&s[i..])
-                    .ok()
-                    .and_then(|r| r.chars().next())
-                    .unwrap_or(char::REPLACEMENT_CHARACTER);
+                let ch = std::str::from_utf8(&s[i..]).ok().and_then(|r| r.chars().next()).unwrap_or(char::REPLACEMENT_CHARACTER);
                 return err(
                     no,
                     format!("unexpected character {ch:?} in XYDATA: expected a number or an ASDF character (@A-Ia-i SQZ, %J-Rj-r DIF, S-Zs DUP)"),
@@ -800,7 +765,7 @@ impl PointsData {
                 }
             }
         }
-        if values.len() % 2 != 0 {
+        if !values.len().is_multiple_of(2) {
             return err(no, "XYPOINTS expects X,Y pairs: this line has an X value without its Y");
         }
         let n = values.len() / 2;
@@ -841,8 +806,7 @@ fn header(labels: &[Label], name: &str) -> Result<Option<HeaderNumber>, JcampErr
         if let Some(first) = &found {
             return err(l.line, format!("{name} is given a second time in one block (first at line {})", first.line));
         }
-        found =
-            Some(HeaderNumber { line: l.line, text: l.value.trim().to_string(), value: parse_number(&l.value, true) });
+        found = Some(HeaderNumber { line: l.line, text: l.value.trim().to_string(), value: parse_number(&l.value, true) });
     }
     Ok(found)
 }
@@ -890,9 +854,7 @@ fn finish_block(open: Open, end_line: usize) -> Result<Option<Block>, JcampError
     let npoints = match header(&labels, "NPOINTS")? {
         None => None,
         Some(h) => match h.value {
-            Some(v) if v > MAX_POINTS as f64 => {
-                return err(h.line, format!("NPOINTS {} is above the limit of 10,000,000 points", h.text))
-            }
+            Some(v) if v > MAX_POINTS as f64 => return err(h.line, format!("NPOINTS {} is above the limit of 10,000,000 points", h.text)),
             Some(v) if v >= 0.0 && v.fract() == 0.0 => Some((h.line, v as usize)),
             _ => return err(h.line, format!("NPOINTS must be a whole number of points, found {}", excerpt(&h.text))),
         },
@@ -925,9 +887,7 @@ fn finish_block(open: Open, end_line: usize) -> Result<Option<Block>, JcampError
     }
     check_y_header(&y, yf, first_y, min_y, max_y, &mut notes);
 
-    let text = |name: &str| {
-        labels.iter().find(|l| l.name == name).map(|l| l.value.trim().to_string()).filter(|v| !v.is_empty())
-    };
+    let text = |name: &str| labels.iter().find(|l| l.name == name).map(|l| l.value.trim().to_string()).filter(|v| !v.is_empty());
     Ok(Some(Block {
         x_units: text("XUNITS"),
         y_units: text("YUNITS"),
@@ -963,21 +923,17 @@ fn place_xydata(
     }
     if let Some((line, said)) = npoints {
         if said != n {
-            notes.push(format!(
-                "line {line}: NPOINTS says {said} but the data lines hold {n} points; the data lines are used"
-            ));
+            notes.push(format!("line {line}: NPOINTS says {said} but the data lines hold {n} points; the data lines are used"));
         }
     }
     let span = n.saturating_sub(1) as f64;
     // The coarsest digit in play: line abscissas (after XFACTOR) and the header's FIRSTX/LASTX.
     let line_unit = d.lines.iter().map(|l| l.unit).fold(0.0, f64::max) * xf.abs();
-    let header_unit =
-        [&first_x, &last_x].iter().filter_map(|g| g.as_ref().map(|(_, _, t)| written_precision(t))).fold(0.0, f64::max);
+    let header_unit = [&first_x, &last_x].iter().filter_map(|g| g.as_ref().map(|(_, _, t)| written_precision(t))).fold(0.0, f64::max);
     let unit = line_unit.max(header_unit);
     let slop = |a: f64, b: f64| 1e-9 * a.abs().max(b.abs()).max(1.0);
     // Header and data name the same point when they agree to the digits written, and never a half step apart.
-    let tol_for =
-        |step: f64, a: f64, b: f64| if step == 0.0 { unit } else { (0.5 * step.abs()).min(unit) } + slop(a, b);
+    let tol_for = |step: f64, a: f64, b: f64| if step == 0.0 { unit } else { (0.5 * step.abs()).min(unit) } + slop(a, b);
     let note_first = |x0: f64, notes: &mut Vec<String>, step: f64| match &first_x {
         Some((_, v, _)) if (v - x0).abs() <= tol_for(step, *v, x0) => *v,
         Some((line, _, text)) => {
@@ -1017,16 +973,15 @@ fn place_xydata(
             (Some((_, a, _)), Some((_, b, _)), Some((_, m))) if m > 1 => Some((b - a) / (m - 1) as f64),
             _ => None,
         };
-        let step = match (delta_x.as_ref().map(|g| g.1), from_range) {
-            (Some(step), _) | (None, Some(step)) => step,
-            (None, None) if n == 1 => 0.0,
-            (None, None) => {
-                return err(
+        let step =
+            match (delta_x.as_ref().map(|g| g.1), from_range) {
+                (Some(step), _) | (None, Some(step)) => step,
+                (None, None) if n == 1 => 0.0,
+                (None, None) => return err(
                     first_line.line,
                     "cannot place the X values: the data are on one line and the header gives neither DELTAX nor FIRSTX, LASTX and NPOINTS",
-                )
-            }
-        };
+                ),
+            };
         let x0 = note_first(first_line.x * xf - first_line.first as f64 * step, notes, step);
         let xe = note_last(x0 + span * step, notes, step);
         return Ok((even(x0, xe), d.y));
@@ -1036,11 +991,7 @@ fn place_xydata(
     if s_g == 0.0 || !s_g.is_finite() {
         return err(
             far.line,
-            format!(
-                "the data lines do not advance in X (line {} and this line both start at {})",
-                first_line.line,
-                show(far.x)
-            ),
+            format!("the data lines do not advance in X (line {} and this line both start at {})", first_line.line, show(far.x)),
         );
     }
     let x0_data = first_line.x * xf - first_line.first as f64 * s_g;
@@ -1061,10 +1012,7 @@ fn place_xydata(
         let step = (xe - x0) / span;
         if let Some((line, v, text)) = &delta_x {
             if (v - step).abs() * span > tol_for(step, *v, step) {
-                notes.push(format!(
-                    "line {line}: DELTAX says {text} but the data lines step by {}; the data lines are used",
-                    show(step)
-                ));
+                notes.push(format!("line {line}: DELTAX says {text} but the data lines step by {}; the data lines are used", show(step)));
             }
         }
         return Ok((even(x0, xe), d.y));
@@ -1084,10 +1032,7 @@ fn place_xydata(
     let step = match &delta_x {
         Some((_, v, _)) if (v - median).abs() <= 0.05 * median.abs() => *v,
         Some((line, _, text)) => {
-            notes.push(format!(
-                "line {line}: DELTAX says {text} but the data lines step by {}; the data lines are used",
-                show(median)
-            ));
+            notes.push(format!("line {line}: DELTAX says {text} but the data lines step by {}; the data lines are used", show(median)));
             median
         }
         None => median,
@@ -1128,9 +1073,7 @@ fn check_points_header(
     let n = x.len();
     if let Some((line, said)) = npoints {
         if said != n {
-            notes.push(format!(
-                "line {line}: NPOINTS says {said} but the data lines hold {n} points; the data lines are used"
-            ));
+            notes.push(format!("line {line}: NPOINTS says {said} but the data lines hold {n} points; the data lines are used"));
         }
     }
     let (Some(&a), Some(&b)) = (x.first(), x.last()) else { return };
@@ -1165,10 +1108,8 @@ fn check_y_header(y: &[f64], yf: f64, first_y: Given, min_y: Given, max_y: Given
     };
     if let (Some((line, v, text)), Some(&y0)) = (first_y, y.first()) {
         if y0.is_finite() && !agrees(v, &text, y0) {
-            notes.push(format!(
-                "line {line}: header FIRSTY says {text} but the first Y value is {}; the header value is ignored",
-                show(y0)
-            ));
+            notes
+                .push(format!("line {line}: header FIRSTY says {text} but the first Y value is {}; the header value is ignored", show(y0)));
         }
     }
     if lo.is_finite() {

@@ -165,9 +165,7 @@ fn jcamp_table(text: &str, block: Option<usize>) -> Result<Table, ImportError> {
     }
     let index = match block {
         Some(0) => return Err(ImportError::whole("blocks are counted from 1")),
-        Some(n) if n > blocks.len() => {
-            return Err(ImportError::whole(format!("block {n} asked for; the file has {}", blocks.len())))
-        }
+        Some(n) if n > blocks.len() => return Err(ImportError::whole(format!("block {n} asked for; the file has {}", blocks.len()))),
         Some(n) => n - 1,
         None if blocks.len() > 1 => {
             return Err(ImportError::whole(format!(
@@ -200,10 +198,7 @@ impl Table {
     /// when neither does.
     pub fn recognise(&self, choice: &ColumnChoice) -> Result<Recognised, ImportError> {
         let axis = choice.axis.or(self.axis).ok_or_else(|| {
-            ImportError::whole(format!(
-                "cannot tell the axis unit from \"{}\"; name it with --x-unit nm|cm-1|ev",
-                self.x_label
-            ))
+            ImportError::whole(format!("cannot tell the axis unit from \"{}\"; name it with --x-unit nm|cm-1|ev", self.x_label))
         })?;
         let index = match choice.column {
             Some(i) if i >= self.columns.len() => {
@@ -238,9 +233,8 @@ impl Table {
                 )))
             }
         };
-        let find = |want: fn(&ColumnKind) -> bool| {
-            self.columns.iter().find(|c| c.kind.as_ref().is_some_and(want)).map(|c| c.values.clone())
-        };
+        let find =
+            |want: fn(&ColumnKind) -> bool| self.columns.iter().find(|c| c.kind.as_ref().is_some_and(want)).map(|c| c.values.clone());
         Ok(Recognised {
             axis,
             x: self.x.clone(),

@@ -101,7 +101,11 @@ pub fn populations(conformers: &[Conformer], temperature_k: f64) -> Result<Vec<f
     }
     let given = conformers.iter().filter(|c| matches!(c.energy, ConformerEnergy::Population(_))).count();
     if given != 0 && given != conformers.len() {
-        return Err(Error::new(ErrorKind::OutOfRange, "conformers", "give every conformer either a relative energy or a population, not a mix"));
+        return Err(Error::new(
+            ErrorKind::OutOfRange,
+            "conformers",
+            "give every conformer either a relative energy or a population, not a mix",
+        ));
     }
     let kt = units::BOLTZMANN_ERG_PER_K * temperature_k;
     let energies: Vec<f64> = conformers
@@ -158,7 +162,11 @@ pub fn bands(conformers: &[Conformer], b: &Broadening) -> Result<Vec<BandDoc>> {
             let d = dipole_strength(t).unwrap_or(0.0);
             let energy = t.energy_ev + b.shift_ev;
             if energy <= 0.0 {
-                return Err(Error::new(ErrorKind::OutOfRange, "shift_ev", format!("the shift moves {} state {} to {energy} eV", c.name, k + 1)));
+                return Err(Error::new(
+                    ErrorKind::OutOfRange,
+                    "shift_ev",
+                    format!("the shift moves {} state {} to {energy} eV", c.name, k + 1),
+                ));
             }
             let nu = AxisUnit::ElectronVolt.to_wavenumber(energy);
             let weight = pop * b.scale * b.local_field;

@@ -193,7 +193,9 @@ fn row(cols: &[Column], f: &[&str], line: usize) -> Result<Transition, TableErro
         };
         match c {
             Column::EnergyEv => t.energy_ev = value,
-            Column::WavelengthNm => t.energy_ev = crate::units::AxisUnit::ElectronVolt.from_wavenumber(crate::units::AxisUnit::Nanometre.to_wavenumber(value)),
+            Column::WavelengthNm => {
+                t.energy_ev = crate::units::AxisUnit::ElectronVolt.from_wavenumber(crate::units::AxisUnit::Nanometre.to_wavenumber(value))
+            }
             Column::Oscillator => t.oscillator = Some(value),
             Column::Dipole => t.dipole_debye2 = Some(value),
             Column::RotatoryLength => t.rotatory_length = Some(value),
@@ -201,7 +203,7 @@ fn row(cols: &[Column], f: &[&str], line: usize) -> Result<Transition, TableErro
             Column::Ignored => {}
         }
     }
-    if !(t.energy_ev > 0.0) {
+    if t.energy_ev.is_nan() || t.energy_ev <= 0.0 {
         return err(line, "the excitation energy must be positive");
     }
     if t.oscillator.is_some_and(|f| f < 0.0) {

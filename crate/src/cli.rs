@@ -15,13 +15,13 @@ use std::ffi::OsString;
 use std::io::Write;
 use std::path::{Path, PathBuf};
 
-/// The export and share verbs (render, link, open).
-mod fitting;
-mod states;
-mod measured;
-mod share;
 /// What the eye sees between polarisers.
 mod colour;
+/// The export and share verbs (render, link, open).
+mod fitting;
+mod measured;
+mod share;
+mod states;
 
 #[derive(Parser)]
 #[command(name = "chiroptic", version, about = "Chiral band models: CD and ORD from n_L and n_R")]
@@ -325,7 +325,17 @@ pub fn run<I: IntoIterator<Item = OsString>>(args: I) -> i32 {
         }
         Verb::Colour(args) => colour::run(&args, &mut out),
         Verb::States { files, temperature, fwhm_ev, sigma_ev, shift_ev, shape, velocity, concentration, output } => {
-            let o = states::StatesOptions { files: &files, temperature_k: temperature, fwhm_ev, sigma_ev, shift_ev, shape: &shape, velocity, concentration, output: &output };
+            let o = states::StatesOptions {
+                files: &files,
+                temperature_k: temperature,
+                fwhm_ev,
+                sigma_ev,
+                shift_ev,
+                shape: &shape,
+                velocity,
+                concentration,
+                output: &output,
+            };
             let mut notes = String::new();
             let result = states::run_states(&o, &mut notes);
             eprint!("{notes}");
@@ -359,29 +369,25 @@ pub fn run<I: IntoIterator<Item = OsString>>(args: I) -> i32 {
 /// Reads and validates a document file.
 pub fn load(path: &Path) -> Result<(Document, Model), Failure> {
     let origin = path.display().to_string();
-    let meta = std::fs::metadata(path)
-        .map_err(|e| Failure::input(&origin, Error::new(ErrorKind::Io, "", format!("cannot read: {e}"))))?;
+    let meta = std::fs::metadata(path).map_err(|e| Failure::input(&origin, Error::new(ErrorKind::Io, "", format!("cannot read: {e}"))))?;
     if meta.len() > crate::document::MAX_DOCUMENT_BYTES as u64 {
         return Err(Failure::input(
             &origin,
-            Error::new(ErrorKind::TooLarge, "", format!("file is {} bytes; the limit is {}", meta.len(), crate::document::MAX_DOCUMENT_BYTES)),
+            Error::new(
+                ErrorKind::TooLarge,
+                "",
+                format!("file is {} bytes; the limit is {}", meta.len(), crate::document::MAX_DOCUMENT_BYTES),
+            ),
         ));
     }
-    let text = std::fs::read_to_string(path)
-        .map_err(|e| Failure::input(&origin, Error::new(ErrorKind::Io, "", format!("cannot read: {e}"))))?;
+    let text =
+        std::fs::read_to_string(path).map_err(|e| Failure::input(&origin, Error::new(ErrorKind::Io, "", format!("cannot read: {e}"))))?;
     let doc = Document::from_json(&text).map_err(|e| Failure::input(&origin, e))?;
     let model = Model::from_document(&doc).map_err(|e| Failure::input(&origin, e))?;
     Ok((doc, model))
 }
 
-fn eval(
-    path: &Path,
-    from: Option<f64>,
-    to: Option<f64>,
-    step: Option<f64>,
-    unit: &str,
-    out: &mut Vec<u8>,
-) -> Result<(), Failure> {
+fn eval(path: &Path, from: Option<f64>, to: Option<f64>, step: Option<f64>, unit: &str, out: &mut Vec<u8>) -> Result<(), Failure> {
     let (_, model) = load(path)?;
     let unit = AxisUnit::parse(unit).ok_or_else(|| {
         Failure::input("--unit", Error::new(ErrorKind::UnknownName, "", format!("unknown unit \"{unit}\" (use nm, cm-1 or ev)")))

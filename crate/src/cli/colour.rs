@@ -79,7 +79,12 @@ pub fn run(a: &ColourArgs, out: &mut Vec<u8>) -> Result<(), Failure> {
     }
     let picture = match (a.side_view, &a.output) {
         (true, Some(p)) => Some(Picture::of(p)?),
-        (true, None) => return Err(flag("--side-view", Error::new(ErrorKind::MissingField, "", "give the picture's file with -o FILE.png or FILE.svg"))),
+        (true, None) => {
+            return Err(flag(
+                "--side-view",
+                Error::new(ErrorKind::MissingField, "", "give the picture's file with -o FILE.png or FILE.svg"),
+            ))
+        }
         (false, Some(_)) => return Err(flag("-o", Error::new(ErrorKind::MissingField, "", "-o writes the side view: add --side-view"))),
         (false, None) => None,
     };

@@ -197,25 +197,47 @@ fn unit_error(e: crate::units::UnitError) -> crate::error::Error {
     crate::error::Error::new(crate::error::ErrorKind::OutOfRange, "data", e.0)
 }
 
+/// The transform of a measured set's Dk (or Dn), `measured`, sampled at
+/// the set's points, with `bands` standing for what lies outside the
+/// measured range: their own part inside the range is taken out before the
+/// numerical transform, and their analytic partner added after, so inside
+/// the range the measurement stands.
+fn with_outside_bands(
+    set: &crate::data::DataSet,
+    bands: &[crate::model::Band],
+    mut measured: Vec<f64>,
+    direction: Direction,
+    at: &[f64],
+) -> crate::error::Result<Vec<f64>> {
+    let model = outside_model(set, bands);
+    // (the part transformed, its partner) of the bands' spectra.
+    let pick = |s: &crate::spectra::Spectra| -> (Vec<f64>, Vec<f64>) {
+        match direction {
+            Direction::DeltaNFromDeltaK => (s.delta_k.clone(), s.delta_n.clone()),
+            Direction::DeltaKFromDeltaN => (s.delta_n.clone(), s.delta_k.clone()),
+        }
+    };
+    if !bands.is_empty() {
+        let (inside, _) = pick(&crate::spectra::evaluate(&model, &set.wavenumbers())?);
+        measured.iter_mut().zip(&inside).for_each(|(v, b)| *v -= b);
+    }
+    let grid = even_grid_of(set, &measured)?;
+    let mut out = transform_even(&grid, direction, at);
+    if !bands.is_empty() {
+        let (_, partner) = pick(&crate::spectra::evaluate(&model, at)?);
+        out.iter_mut().zip(&partner).for_each(|(v, b)| *v += b);
+    }
+    Ok(out)
+}
+
 /// The observed rotation (deg, at the set's own concentration and path)
 /// that a measured CD spectrum predicts at wavenumbers `at`.
 pub fn rotation_from_cd(set: &crate::data::DataSet, bands: &[crate::model::Band], at: &[f64]) -> crate::error::Result<Vec<f64>> {
     let c = set.context.concentration_mol_per_l;
-    let nu = set.wavenumbers();
     let de = set.delta_epsilon().map_err(unit_error)?;
     // Dk = De ln10 c / (4 pi nu), the inverse of spectra::epsilon_from_k.
-    let mut dk: Vec<f64> = de.iter().zip(&nu).map(|(d, n)| d / crate::spectra::epsilon_from_k(1.0, *n, c)).collect();
-    let model = outside_model(set, bands);
-    if !bands.is_empty() {
-        let inside = crate::spectra::evaluate(&model, &nu)?;
-        dk.iter_mut().zip(&inside.delta_k).for_each(|(v, b)| *v -= b);
-    }
-    let grid = even_grid_of(set, &dk)?;
-    let mut dn = transform_even(&grid, Direction::DeltaNFromDeltaK, at);
-    if !bands.is_empty() {
-        let all = crate::spectra::evaluate(&model, at)?;
-        dn.iter_mut().zip(&all.delta_n).for_each(|(v, b)| *v += b);
-    }
+    let dk: Vec<f64> = de.iter().zip(set.wavenumbers()).map(|(d, n)| d / crate::spectra::epsilon_from_k(1.0, n, c)).collect();
+    let dn = with_outside_bands(set, bands, dk, Direction::DeltaNFromDeltaK, at)?;
     Ok(dn.iter().zip(at).map(|(d, n)| crate::units::degrees_from_delta_n(*d, *n, set.context.path_length_cm)).collect())
 }
 
@@ -223,20 +245,9 @@ pub fn rotation_from_cd(set: &crate::data::DataSet, bands: &[crate::model::Band]
 /// measured ORD spectrum predicts at wavenumbers `at`.
 pub fn ellipticity_from_ord(set: &crate::data::DataSet, bands: &[crate::model::Band], at: &[f64]) -> crate::error::Result<Vec<f64>> {
     let l = set.context.path_length_cm;
-    let nu = set.wavenumbers();
     let phi = set.rotation_deg().map_err(unit_error)?;
-    let mut dn: Vec<f64> = phi.iter().zip(&nu).map(|(p, n)| crate::units::delta_n_from_degrees(*p, *n, l)).collect();
-    let model = outside_model(set, bands);
-    if !bands.is_empty() {
-        let inside = crate::spectra::evaluate(&model, &nu)?;
-        dn.iter_mut().zip(&inside.delta_n).for_each(|(v, b)| *v -= b);
-    }
-    let grid = even_grid_of(set, &dn)?;
-    let mut dk = transform_even(&grid, Direction::DeltaKFromDeltaN, at);
-    if !bands.is_empty() {
-        let all = crate::spectra::evaluate(&model, at)?;
-        dk.iter_mut().zip(&all.delta_k).for_each(|(v, b)| *v += b);
-    }
+    let dn: Vec<f64> = phi.iter().zip(set.wavenumbers()).map(|(p, n)| crate::units::delta_n_from_degrees(*p, n, l)).collect();
+    let dk = with_outside_bands(set, bands, dn, Direction::DeltaKFromDeltaN, at)?;
     let c = set.context.concentration_mol_per_l;
     let ctx = set.context;
     dk.iter()

@@ -36,18 +36,8 @@ enum Verb {
     Eval {
         /// The model document (JSON).
         doc: PathBuf,
-        /// First grid point (in --unit); default: a range showing every band.
-        #[arg(long, allow_negative_numbers = true)]
-        from: Option<f64>,
-        /// Last grid point (in --unit).
-        #[arg(long, allow_negative_numbers = true)]
-        to: Option<f64>,
-        /// Grid step (in --unit).
-        #[arg(long, allow_negative_numbers = true)]
-        step: Option<f64>,
-        /// Unit of --from, --to and --step: nm, cm-1 or ev.
-        #[arg(long, default_value = "nm")]
-        unit: String,
+        #[command(flatten)]
+        grid: GridArgs,
     },
     /// Rotation and specific rotation at the standard lamp lines.
     Lines {
@@ -180,18 +170,29 @@ enum Verb {
         /// for what lies outside the measured range.
         #[arg(long)]
         add: Option<PathBuf>,
-        #[arg(long, allow_negative_numbers = true)]
-        from: Option<f64>,
-        #[arg(long, allow_negative_numbers = true)]
-        to: Option<f64>,
-        #[arg(long, allow_negative_numbers = true)]
-        step: Option<f64>,
-        #[arg(long, default_value = "nm")]
-        unit: String,
+        #[command(flatten)]
+        grid: GridArgs,
         /// The transformed value at the polarimeter lamp lines instead of a grid.
         #[arg(long)]
         lines: bool,
     },
+}
+
+/// A grid: all of --from, --to and --step, or none (a default range).
+#[derive(clap::Args)]
+struct GridArgs {
+    /// First grid point (in --unit); default: a range showing every band (eval) or the data's own points (kk).
+    #[arg(long, allow_negative_numbers = true)]
+    from: Option<f64>,
+    /// Last grid point (in --unit).
+    #[arg(long, allow_negative_numbers = true)]
+    to: Option<f64>,
+    /// Grid step (in --unit).
+    #[arg(long, allow_negative_numbers = true)]
+    step: Option<f64>,
+    /// Unit of --from, --to and --step: nm, cm-1 or ev.
+    #[arg(long, default_value = "nm")]
+    unit: String,
 }
 
 /// The flags of `fit`.
@@ -279,7 +280,7 @@ pub fn run<I: IntoIterator<Item = OsString>>(args: I) -> i32 {
     };
     let mut out = Vec::new();
     let result = match cli.verb {
-        Verb::Eval { doc, from, to, step, unit } => eval(&doc, from, to, step, &unit, &mut out),
+        Verb::Eval { doc, grid } => eval(&doc, grid.from, grid.to, grid.step, &grid.unit, &mut out),
         Verb::Lines { doc } => lines(&doc, &mut out),
         Verb::Render { doc, plot, unit, axis, from, to, width, height, dark, no_contributions, no_legend, output } => {
             let options = share::RenderOptions {
@@ -345,8 +346,9 @@ pub fn run<I: IntoIterator<Item = OsString>>(args: I) -> i32 {
             let o = states::CompareOptions { from_nm: from, to_nm: to, label: &label };
             states::run_compare(&doc, &data, &columns.flags(), &o, &mut out)
         }
-        Verb::Kk { data, columns, add, from, to, step, unit, lines } => {
-            let options = measured::KkOptions { add: add.as_deref(), from, to, step, unit: &unit, lines };
+        Verb::Kk { data, columns, add, grid, lines } => {
+            let options =
+                measured::KkOptions { add: add.as_deref(), from: grid.from, to: grid.to, step: grid.step, unit: &grid.unit, lines };
             measured::kk(&data, &columns.flags(), &options, &mut out)
         }
     };

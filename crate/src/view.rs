@@ -139,6 +139,23 @@ pub struct View {
     pub plots: Vec<PlotKind>,
 }
 
+/// Sample data a unit may need that a model can lack.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum NeedsSample {
+    MolarMass,
+    MeanResidueWeight,
+}
+
+impl NeedsSample {
+    /// A stable key (`needs_molar_mass`, `needs_mean_residue_weight`).
+    pub fn key(self) -> &'static str {
+        match self {
+            NeedsSample::MolarMass => "needs_molar_mass",
+            NeedsSample::MeanResidueWeight => "needs_mean_residue_weight",
+        }
+    }
+}
+
 /// The defaults of a view that names nothing.
 pub const DEFAULT_CD_UNIT: CdUnit = CdUnit::Millidegrees;
 pub const DEFAULT_ORD_UNIT: OrdUnit = OrdUnit::Degrees;
@@ -149,6 +166,14 @@ impl View {
     /// sample data the model lacks (a molar mass, a mean residue weight) is
     /// refused here, naming the view field, before anything is drawn.
     pub fn resolve(view: Option<&ViewDoc>, model: &Model) -> Result<View> {
+        let view = View::choose(view, model)?;
+        view.check_units(model)?;
+        Ok(view)
+    }
+
+    /// Checks `view` and makes its choices, without asking whether the model
+    /// has the sample data its units need (see [`View::lacking`]).
+    pub fn choose(view: Option<&ViewDoc>, model: &Model) -> Result<View> {
         let empty = ViewDoc::default();
         let v = view.unwrap_or(&empty);
         check(v)?;
@@ -174,7 +199,6 @@ impl View {
                 Some(keys) => keys.iter().filter_map(|k| PlotKind::parse(k)).collect(),
             },
         };
-        view.check_units(model)?;
         Ok(view)
     }
 
@@ -184,6 +208,22 @@ impl View {
         self.cd_unit.from_delta_epsilon(1.0, 1.0, &ctx).map_err(|e| Error::new(ErrorKind::MissingField, "view.cd_unit", e.to_string()))?;
         self.ord_unit.from_degrees(1.0, 1.0, &ctx).map_err(|e| Error::new(ErrorKind::MissingField, "view.ord_unit", e.to_string()))?;
         Ok(())
+    }
+
+    /// The sample data the view's CD or ORD unit needs and the model lacks:
+    /// (the view field that chose the unit, the unit's quantity as labelled,
+    /// what is missing), for each face to word in its own way.
+    pub fn lacking(&self, model: &Model) -> Option<(&'static str, &'static str, NeedsSample)> {
+        let ctx = &model.sample.context;
+        let quantity = |label: &'static str| label.split(" / ").next().unwrap_or(label);
+        if self.cd_unit.from_delta_epsilon(1.0, 1.0, ctx).is_err() {
+            let needs = if ctx.mean_residue_weight_g_per_mol.is_none() { NeedsSample::MeanResidueWeight } else { NeedsSample::MolarMass };
+            return Some(("view.cd_unit", quantity(self.cd_unit.label()), needs));
+        }
+        if self.ord_unit.from_degrees(1.0, 1.0, ctx).is_err() {
+            return Some(("view.ord_unit", quantity(self.ord_unit.label()), NeedsSample::MolarMass));
+        }
+        None
     }
 
     /// The view's grid: `points` evenly spaced in the axis unit.

@@ -22,8 +22,8 @@ use crate::error::{Error, ErrorKind};
 use crate::figures;
 use crate::link;
 use crate::units::{AxisUnit, UnitError};
-use crate::view::{self, AXIS_UNITS};
-use reply::reply_one;
+use crate::view::{self, NeedsSample, AXIS_UNITS};
+use reply::{reply_one, Refusal};
 use wasm_bindgen::prelude::*;
 
 /// The invented demo, embedded at build time so that the page (and the single
@@ -148,22 +148,9 @@ fn axis_unit(key: &str) -> Result<AxisUnit, Error> {
     AXIS_UNITS.into_iter().find(|u| view::axis_key(*u) == key).ok_or_else(|| unknown_unit("spectral", key))
 }
 
-/// Sample data a unit needs, named as the page's controls name it. The core's
-/// unit errors name the document field (`units` words them for the CLI).
-fn in_words(message: &str) -> String {
-    message
-        .replace("sample.molar_mass_g_per_mol", "the molar mass")
-        .replace("sample.mean_residue_weight_g_per_mol", "the mean residue weight")
-}
-
-/// A unit conversion that needs sample data the model lacks.
-fn needs_sample_data(e: UnitError) -> Error {
-    Error::new(ErrorKind::MissingField, "", in_words(&e.0))
-}
-
-/// A view refused for missing sample data, worded for the page.
-fn worded(e: Error) -> Error {
-    Error { message: in_words(&e.message), ..e }
+/// A conversion refused for want of the molar mass (mass concentrations).
+fn needs_molar_mass(_: UnitError) -> Refusal {
+    Refusal::needs(NeedsSample::MolarMass, "", "a mass concentration")
 }
 
 /// A spectral position from one axis unit to another: `{ ok, value }`.
@@ -183,12 +170,12 @@ pub fn convert_width(width: f64, from: &str, to: &str, center_nm: f64) -> JsValu
 /// A concentration from one unit to another (mass units need the molar mass): `{ ok, value }`.
 #[wasm_bindgen]
 pub fn convert_concentration(value: f64, from: &str, to: &str, molar_mass_g_per_mol: Option<f64>) -> JsValue {
-    let result = (|| {
+    let result = (|| -> Result<f64, Refusal> {
         let unit = |key: &str| catalog::concentration_unit(key).ok_or_else(|| unknown_unit("concentration", key));
-        let mol = unit(from)?.to_mol_per_l(value, molar_mass_g_per_mol).map_err(needs_sample_data)?;
-        unit(to)?.from_mol_per_l(mol, molar_mass_g_per_mol).map_err(needs_sample_data)
+        let mol = unit(from)?.to_mol_per_l(value, molar_mass_g_per_mol).map_err(needs_molar_mass)?;
+        unit(to)?.from_mol_per_l(mol, molar_mass_g_per_mol).map_err(needs_molar_mass)
     })();
-    reply_one("value", result)
+    reply::reply_one_refusal("value", result)
 }
 
 /// A path length from one unit to another: `{ ok, value }`.

@@ -1,8 +1,10 @@
 //! The one reply shape of every call the page makes:
 //! `{ ok: true, ...fields }` or `{ ok: false, error: { kind, field, message } }`,
-//! with `kind` a stable snake_case key the page may match on.
+//! with `kind` a stable snake_case key the page may match on: the core's
+//! error kinds, and `needs_molar_mass` / `needs_mean_residue_weight`.
 
 use crate::error::{Error, ErrorKind};
+use crate::view::NeedsSample;
 use serde::Serialize;
 use serde_json::{Map, Value};
 use wasm_bindgen::JsValue;
@@ -56,25 +58,68 @@ pub fn ok_one<T: Serialize>(name: &'static str, value: T) -> JsValue {
     with_ok(map, true)
 }
 
-pub fn failed(e: &Error) -> JsValue {
-    let error = ErrorOut { kind: kind_key(e.kind), field: &e.field, message: &e.message };
+/// Why a call was refused, as the page gets it: the core's error, or sample
+/// data a unit needs (`needs_molar_mass`, `needs_mean_residue_weight`),
+/// worded for the page's controls.
+#[derive(Debug, Clone)]
+pub struct Refusal {
+    pub kind: &'static str,
+    pub field: String,
+    pub message: String,
+}
+
+impl From<Error> for Refusal {
+    fn from(e: Error) -> Refusal {
+        Refusal { kind: kind_key(e.kind), field: e.field, message: e.message }
+    }
+}
+
+impl Refusal {
+    /// `quantity` needs sample data the model lacks; `field` chose the unit.
+    pub fn needs(needs: NeedsSample, field: &str, quantity: &str) -> Refusal {
+        let what = match needs {
+            NeedsSample::MolarMass => "the molar mass",
+            NeedsSample::MeanResidueWeight => "the mean residue weight",
+        };
+        Refusal { kind: needs.key(), field: field.into(), message: format!("{quantity} needs {what}") }
+    }
+}
+
+/// `{ ok: false, error }` for a refusal.
+pub fn refused(e: &Refusal) -> JsValue {
+    let error = ErrorOut { kind: e.kind, field: &e.field, message: &e.message };
     let mut map = Map::new();
     map.insert("error".into(), serde_json::to_value(error).unwrap_or(Value::Null));
     with_ok(map, false)
 }
 
+/// `{ ok: false, error }` for a core error.
+pub fn failed(e: &Error) -> JsValue {
+    refused(&Refusal::from(e.clone()))
+}
+
 /// A result as a reply: the success's fields, or the error.
 pub fn reply<T: Serialize>(result: Result<T, Error>) -> JsValue {
+    reply_refusal(result.map_err(Refusal::from))
+}
+
+/// A result as a reply, when the refusal may be the page's own (needs_molar_mass ...).
+pub fn reply_refusal<T: Serialize>(result: Result<T, Refusal>) -> JsValue {
     match result {
         Ok(body) => ok(&body),
-        Err(e) => failed(&e),
+        Err(e) => refused(&e),
     }
 }
 
 /// A result of one named value as a reply.
 pub fn reply_one<T: Serialize>(name: &'static str, result: Result<T, Error>) -> JsValue {
+    reply_one_refusal(name, result.map_err(Refusal::from))
+}
+
+/// One named value, or a refusal that may be the page's own.
+pub fn reply_one_refusal<T: Serialize>(name: &'static str, result: Result<T, Refusal>) -> JsValue {
     match result {
         Ok(value) => ok_one(name, value),
-        Err(e) => failed(&e),
+        Err(e) => refused(&e),
     }
 }

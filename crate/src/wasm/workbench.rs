@@ -5,7 +5,7 @@
 
 use super::canvas::{DrawnText, FastCanvas, TextSizes};
 use super::document_from_js;
-use super::reply::{failed, reply, reply_one};
+use super::reply::{failed, reply, reply_one, reply_refusal, Refusal};
 use crate::error::{Error, ErrorKind};
 use crate::figures::{self, PlotFrame, PlotRequest};
 use crate::lines::rotation_at_lines;
@@ -194,7 +194,7 @@ impl Workbench {
         if let Ok(o) = serde_wasm_bindgen::from_value::<DrawOptions>(options) {
             self.options = o;
         }
-        reply(self.try_update(doc))
+        reply_refusal(self.try_update(doc))
     }
 
     /// Redraws the last good model with new page options (theme, highlight, size).
@@ -292,10 +292,14 @@ fn no_context() -> Error {
 }
 
 impl Workbench {
-    fn try_update(&mut self, doc: JsValue) -> Result<Drawn, Error> {
+    fn try_update(&mut self, doc: JsValue) -> Result<Drawn, Refusal> {
         let doc = document_from_js(doc)?;
         let model = Model::from_document(&doc)?;
-        let view = View::resolve(doc.view.as_ref(), &model).map_err(super::worded)?;
+        let view = View::choose(doc.view.as_ref(), &model)?;
+        // A unit that needs sample data the model lacks, said of the unit menu.
+        if let Some((field, quantity, needs)) = view.lacking(&model) {
+            return Err(Refusal::needs(needs, field, quantity));
+        }
         let spectra = evaluate(&model, &view.grid()?.wavenumber_cm1)?;
         let lines = rotation_at_lines(&model)?
             .into_iter()

@@ -111,3 +111,14 @@ export const csv = (step) => reply(() => workbench.csv(step ?? undefined));
 export const svg = (key, figure) => value(() => workbench.svg(key, figure), "svg");
 export const drawPlot = (key, canvas, scale, figure) => value(() => workbench.draw_plot(key, canvas, scale, figure), "frame");
 export const drawnText = (key) => orElse(() => workbench.drawn_text(key), "texts", []);
+
+// ---------------------------------------------------------------- colour
+
+/** Light sources, strip samples and side-view caps: `{ ok, illuminants, default_samples, max_samples, side }`. */
+export const colourCatalog = () => reply(() => wasm.colour_catalog());
+/** The colour seen end-on through the analyser at `analyserDeg`. */
+export const colourEndOn = (doc, analyserDeg, illuminant) => reply(() => wasm.colour_end_on(doc, analyserDeg, illuminant));
+/** The colours over analyser angles 0–180° at `samples` angles. */
+export const colourStrip = (doc, illuminant, samples) => reply(() => wasm.colour_strip(doc, illuminant, samples));
+/** The tube from the side: `{ ok, width, height, length_cm, diameter_cm, viewer_distance_cm, rgba }`. */
+export const colourSideView = (doc, width, height, illuminant) => reply(() => wasm.colour_side_view(doc, width, height, illuminant, undefined));

@@ -26,10 +26,12 @@ export function dropFieldsIn(selector) {
 /**
  * Binds a text box (and an optional slider) to one number of the document.
  * spec: { input, slider, get(), set(v), unit(), step(v), range(), log, optional,
- *         integer, canonical, label, deferred }
+ *         integer, canonical, label, deferred, changed(source) }
  * get/set work in the unit shown; set may throw an Error whose message is shown.
  * A `deferred` field (the window ends) applies typing on Enter, on leaving the
  * box or after a pause, so a half-typed number is never applied.
+ * A field with `changed` holds page state, not the document: it calls that
+ * instead of edit(), so it makes no history step and no redraw.
  */
 export function bindNumber(spec) {
   const { input, slider } = spec;
@@ -45,6 +47,7 @@ export function bindNumber(spec) {
       return;
     }
     if (source !== "slider") syncSlider(field);
+    if (spec.changed) return spec.changed(source);
     // Typing and sliding in one box is one undo step; a key step is its own.
     edit({ merge: source === "key" ? null : input });
   };

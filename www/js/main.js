@@ -17,6 +17,7 @@ import { bindFiles } from "./files.js";
 import { bindExport } from "./export.js";
 import { bindShare } from "./share.js";
 import { startWiki } from "./wiki.js";
+import { bindColour } from "./colour.js";
 import { bindTheme, bindMenus, renderConventions } from "./chrome.js";
 
 async function main() {
@@ -45,6 +46,7 @@ async function main() {
   bindHistory();
   bindExport();
   bindShare();
+  bindColour();
   bindMenus();
   renderConventions();
   sizeCanvases();

@@ -94,7 +94,8 @@ export function renderErrors() {
     if (f.localError && f.input.isConnected) {
       const text = f.label ? `${f.label}: ${f.localError}` : f.localError;
       put(f.input, text);
-      first ||= text;
+      // A page-state field (the analyser angle) leaves the plots as they are.
+      if (!f.changed) first ||= text;
     }
   }
   if (state.coreError) {

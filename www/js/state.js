@@ -34,4 +34,6 @@ export const state = {
   printing: false,
   /** Whether the plots show a stale (last good) model. */
   stale: false,
+  /** The colour panel's analyser angle (degrees) and light source key: page state, not the document's. */
+  colour: { analyser_deg: 0, illuminant: null },
 };

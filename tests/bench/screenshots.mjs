@@ -1,8 +1,8 @@
 // Screenshots of the page for a person to look at (run on demand):
 //   node tests/bench/screenshots.mjs [out-dir]
 // Writes wide (1280x800) and narrow (800x1000) views, light and dark, a view
-// with a bad entry, the export and share menus, a refused link, the wiki view
-// and the single offline file opened from disk, and prints any console error
+// with a bad entry, the export and share menus, a refused link, the wiki view,
+// the colour panel and the single offline file opened from disk, and prints any console error
 // the page logged.
 import { mkdirSync } from "node:fs";
 import { join } from "node:path";
@@ -56,6 +56,11 @@ try {
       await wiki.page.screenshot({ path: join(out, "wiki-cd.png") });
       await wiki.context.close();
     }
+    // The colour panel open, scrolled into view (after its side view is drawn).
+    await page.click("#colour-details summary");
+    await page.waitForSelector("#colour-side[data-drawn]", { state: "attached", timeout: 10000 });
+    await page.locator("#colour").evaluate((n) => n.scrollIntoView({ block: "end" }));
+    await page.screenshot({ path: join(out, `${name}-colour.png`) });
     if (log.errors.length) console.log(`${name}: console errors:\n  ${log.errors.join("\n  ")}`);
     if (log.foreign.length) console.log(`${name}: foreign requests: ${log.foreign.join(", ")}`);
     await context.close();

@@ -17,6 +17,7 @@ pub mod lines;
 pub mod link;
 pub mod lineshape;
 pub mod model;
+pub mod overlay;
 pub mod processing;
 pub mod solvent;
 pub mod similarity;

@@ -50,9 +50,11 @@ pub const MAX_INFLATED_BYTES: usize = 2 * 1024 * 1024;
 /// zlib level (miniz scale, 10 = best).
 const LEVEL: u8 = 10;
 
-/// Document key -> code inside the link. Codes are distinct and none is a
-/// document key (`a` and `b` of the solvent series stay as they are).
-pub const KEY_CODES: [(&str, &str); 29] = [
+/// Document key -> code inside the link. Codes are distinct; a code that is
+/// also a document key (a data set's `x` and `y`) has a code of its own, so
+/// every key reads back as itself (`a` and `b` of the solvent series stay as
+/// they are).
+pub const KEY_CODES: [(&str, &str); 31] = [
     ("chiroptic", "v"),
     ("title", "t"),
     ("sample", "s"),
@@ -82,6 +84,8 @@ pub const KEY_CODES: [(&str, &str); 29] = [
     ("cd_unit", "C"),
     ("ord_unit", "O"),
     ("plots", "P"),
+    ("x", "_x"),
+    ("y", "_y"),
 ];
 
 fn link_error(kind: ErrorKind, message: impl Into<String>) -> Error {
@@ -230,7 +234,8 @@ mod tests {
     #[test]
     fn codes_are_distinct_and_never_a_document_key() {
         for (i, (k, c)) in KEY_CODES.iter().enumerate() {
-            assert!(code_of(c).is_none(), "code {c} is also a key");
+            assert_eq!(key_of(code_of(k).unwrap_or_default()), Some(*k), "key {k} reads back as itself");
+            assert!(code_of(c).is_none() || KEY_CODES.iter().any(|(k2, _)| k2 == c), "code {c} is a key without a code");
             assert_eq!(KEY_CODES.iter().filter(|(_, c2)| c2 == c).count(), 1, "code {c} used twice");
             assert_eq!(KEY_CODES.iter().position(|(k2, _)| k2 == k), Some(i), "key {k} listed twice");
             assert!(!["a", "b"].contains(c), "code {c} is a solvent key");

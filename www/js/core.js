@@ -122,3 +122,22 @@ export const colourEndOn = (doc, analyserDeg, illuminant) => reply(() => wasm.co
 export const colourStrip = (doc, illuminant, samples) => reply(() => wasm.colour_strip(doc, illuminant, samples));
 /** The tube from the side: `{ ok, width, height, length_cm, diameter_cm, viewer_distance_cm, rgba }`. */
 export const colourSideView = (doc, width, height, illuminant) => reply(() => wasm.colour_side_view(doc, width, height, illuminant, undefined));
+
+// ---------------------------------------------------------------- measured data
+
+/** Import limits, the link cap, the largest smoothing order. */
+export const dataCatalog = () => reply(() => wasm.data_catalog());
+/** A file's table for the column picker: `{ ok, format, columns, rows, recognised, problem, units, ... }`. */
+export const importPreview = (text, name) => reply(() => wasm.import_preview(text, name, undefined));
+/** The data-set entry of a file with the user's column choice: `{ ok, set }`. */
+export const importDataSet = (doc, text, name, choice) => reply(() => wasm.import_data_set(doc, text, name, undefined, choice ?? null));
+/** Each set after its processing, for the data list: `{ ok, sets }`. */
+export const dataRows = (doc) => reply(() => wasm.data_rows(doc));
+/** A derived set by Kramers-Kronig from set `i`: `{ ok, set }`. */
+export const kkPredict = (doc, i) => reply(() => wasm.kk_predict(doc, i));
+/** Rotation at the lamp lines from CD set `i`: `{ ok, lines }`. */
+export const kkLines = (doc, i) => reply(() => wasm.kk_lines(doc, i));
+/** Typed readings at the sample's conditions: `{ ok, readings }`. */
+export const readingRows = (doc) => reply(() => wasm.reading_rows(doc));
+/** The share link's length and whether links may hold it: `{ ok, chars, limit, fits }`. */
+export const linkSize = (doc) => reply(() => wasm.link_size(doc));

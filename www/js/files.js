@@ -7,6 +7,7 @@ import { state } from "./state.js";
 import * as core from "./core.js";
 import { setStatus, sayDone, problemText } from "./messages.js";
 import { loadDocument, noted } from "./edit.js";
+import { looksLikeModel, openDataFile } from "./data.js";
 
 export function downloadBlob(name, blob) {
   const url = URL.createObjectURL(blob);
@@ -25,8 +26,9 @@ export function fileStem() {
   return t.slice(0, 40) || "model";
 }
 
-/** Reads a chosen file: it loads only when it is a whole valid model. */
-async function openFile(file) {
+/** Reads a chosen or dropped file: a model loads only when whole and valid; any other file is read as measured data. */
+export async function openFile(file) {
+  if (!/\.json$/i.test(file.name) && !looksLikeModel(await file.slice(0, 64).text())) return openDataFile(file);
   if (file.size > core.catalog.max_document_bytes) {
     const mib = core.catalog.max_document_bytes / (1024 * 1024);
     return setStatus(`${file.name}: larger than any model file (over ${mib} MiB); nothing was changed.`, true);

@@ -14,6 +14,8 @@ import { bindWindow } from "./window.js";
 import { bindSample } from "./sample.js";
 import { bindBandTable } from "./bands.js";
 import { bindFiles } from "./files.js";
+import { bindData } from "./data.js";
+import { bindReadings } from "./readings.js";
 import { bindExport } from "./export.js";
 import { bindShare } from "./share.js";
 import { startWiki } from "./wiki.js";
@@ -43,6 +45,8 @@ async function main() {
   bindBandTable();
   bindPlots();
   bindFiles();
+  bindData();
+  bindReadings();
   bindHistory();
   bindExport();
   bindShare();

@@ -9,6 +9,7 @@ import * as core from "./core.js";
 import { showNotice, problemText, sayDone } from "./messages.js";
 import { loadDocument } from "./edit.js";
 import { fillShare } from "./share.js";
+import { linkFits } from "./data.js";
 
 const AUTOSAVE_KEY = "chiroptic.autosave";
 /** Where an autosave that could not be read is set aside (nothing is thrown away). */
@@ -30,7 +31,8 @@ export function readFragment() {
 export function currentLink() {
   if (!state.goodDoc) return null;
   const r = core.linkEncode(state.goodDoc);
-  return r.ok ? r.link : null;
+  // A link longer than links may be would not open: none is offered (data.js says so).
+  return r.ok && linkFits() ? r.link : null;
 }
 
 /** The page's address without its fragment: where links and embeds point. */
@@ -102,6 +104,9 @@ function persist() {
     // replaceState: no history entry per edit, and no hashchange.
     if (location.hash.slice(1) !== link) history.replaceState(null, "", `#${link}`);
     if ($("share-menu").open) fillShare();
+  } else if (location.hash) {
+    // The old link no longer holds this model.
+    history.replaceState(null, "", location.pathname + location.search);
   }
   writeAutosave(state.goodDoc);
 }

@@ -5,12 +5,13 @@
 import { $, el } from "./dom.js";
 import { state } from "./state.js";
 import { currentLink, shareUrl, pageAddress } from "./persist.js";
+import { linkFits } from "./data.js";
 import { plotKeys, plotTitle } from "./plots.js";
 
 export function fillShare() {
   const url = shareUrl();
   $("link-text").value = url ?? "";
-  $("link-length").textContent = url ? `${url.length} characters` : "the model has an error: no link";
+  $("link-length").textContent = url ? `${url.length} characters` : linkFits() ? "the model has an error: no link" : "too long for a link: share the document file (Save model)";
   fillEmbed();
 }
 

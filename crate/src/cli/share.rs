@@ -44,7 +44,10 @@ pub fn render(path: &Path, o: &RenderOptions, output: &Path, out: &mut Vec<u8>) 
     let grid = view.grid().map_err(|e| Failure::input("--from/--to", e))?;
     let spectra = evaluate(&model, &grid.wavenumber_cm1).map_err(|e| Failure::input(&origin, e))?;
 
+    // Measured data drawn as the page draws them.
+    let points = crate::overlay::point_sets(&doc, &model, &view).map_err(|e| Failure::input(&origin, e))?;
     let mut req = PlotRequest::new(kind, &spectra, view.axis, view.x_range);
+    req.points = &points;
     req.cd_unit = view.cd_unit;
     req.ord_unit = view.ord_unit;
     req.dark = o.dark;

@@ -23,6 +23,7 @@
 
 mod draw;
 mod layout;
+mod points;
 mod scale;
 mod style;
 mod traces;
@@ -40,6 +41,7 @@ use plotters::prelude::*;
 use scale::{value_range, zero_aligned, AxisScale};
 use traces::{axis_positions, traces, Trace};
 pub use traces::{sum_key, KeyEntry};
+pub use points::RESIDUAL_LABEL;
 
 /// The font sizes an export may ask for, in CSS pixels.
 pub const MIN_FONT_PX: f64 = 6.0;
@@ -99,6 +101,8 @@ pub struct PlotRequest<'a> {
     pub y_range: Option<(f64, f64)>,
     /// Tick label size in CSS pixels (an export's font size); None: follows the figure's size.
     pub font_px: Option<f64>,
+    /// Measured data sets (`overlay`); each is drawn on the plot it belongs on.
+    pub points: &'a [crate::overlay::PointSet],
 }
 
 impl<'a> PlotRequest<'a> {
@@ -118,6 +122,7 @@ impl<'a> PlotRequest<'a> {
             pixel_ratio: 1.0,
             y_range: None,
             font_px: None,
+            points: &[],
         }
     }
 
@@ -251,17 +256,27 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, req: &PlotRequest
         return Err(range_error(format!("no computed points lie between {lo} and {hi} {}", req.axis.label())));
     }
     let (y_range, y2_range) = value_ranges(req, &sums, &bands, &visible);
+    let sets = points::on_plot(req);
+    let y_range = if req.y_range.is_some() { y_range } else { points::widen(y_range, &sets, (lo, hi)) };
     let layout = Layout::new(area.dim_in_pixel(), req, &theme);
     let x = XAxis::new((lo, hi), req.x_range.0 > req.x_range.1, layout.x_ticks());
     let y = AxisScale::new(y_range, layout.y_ticks());
     let y2 = y2_range.map(|r| AxisScale::new(r, layout.y_ticks()));
 
     area.fill(&theme.background).map_err(draw_error)?;
-    let mut chart = draw::chart(area, &layout, &x, &y, y2.as_ref())?;
+    // A residual strip takes the bottom of the figure; the plot keeps the rest.
+    let (main, strip) = if points::wants_strip(&sets) {
+        let (m, s) = points::split(area);
+        (m, Some(s))
+    } else {
+        (area.clone(), None)
+    };
+    let mut chart = draw::chart(&main, &layout, &x, &y, y2.as_ref())?;
     draw::mesh(&mut chart, &layout, &theme, (&x, req.axis), (&y, req.y_label()), y2.as_ref())?;
     draw::zero_line(&mut chart, &layout, &theme, &x, &y)?;
     let at = Placement { xs: &xs, visible: &visible, x: &x, y: &y, y2: y2.as_ref(), legend: req.legend };
     let keyed = draw::traces(&mut chart, &layout, &sums, &bands, &at)?;
+    points::draw_sets(&mut chart, &layout, &theme, &sets, &x, &y, |s| Some(&s.y))?;
     draw::frame(&mut chart, &layout, &theme, &x, &y)?;
     if keyed {
         let all: Vec<&Trace> = sums.iter().chain(&bands).collect();
@@ -269,6 +284,9 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, req: &PlotRequest
     }
 
     let (px, py) = chart.plotting_area().get_pixel_range();
+    if let Some(strip) = strip {
+        points::strip(&strip, &layout, &theme, &sets, &x, layout.y_area(&main, &y))?;
+    }
     Ok(PlotFrame { left: px.start, top: py.start, right: px.end, bottom: py.end, x_range: req.x_range, y_range, y2_range })
 }
 

@@ -11,6 +11,7 @@
 mod canvas;
 mod catalog;
 mod colour;
+mod data;
 mod reply;
 mod workbench;
 

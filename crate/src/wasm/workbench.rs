@@ -171,6 +171,8 @@ pub struct Workbench {
     /// The text drawn on each canvas by the last redraw (tests compare it
     /// with the SVG export).
     drawn_text: RefCell<HashMap<&'static str, Vec<String>>>,
+    /// The shown data sets of the last good document, in its plots' units.
+    points: Vec<crate::overlay::PointSet>,
 }
 
 #[wasm_bindgen]
@@ -184,6 +186,7 @@ impl Workbench {
             options: DrawOptions::default(),
             text_sizes: TextSizes::default(),
             drawn_text: RefCell::new(HashMap::new()),
+            points: Vec::new(),
         }
     }
 
@@ -301,6 +304,7 @@ impl Workbench {
             return Err(Refusal::needs(needs, field, quantity));
         }
         let spectra = evaluate(&model, &view.grid()?.wavenumber_cm1)?;
+        let last_points = std::mem::replace(&mut self.points, crate::overlay::point_sets(&doc, &model, &view)?);
         let lines = rotation_at_lines(&model)?
             .into_iter()
             .map(|r| LineOut {
@@ -311,7 +315,13 @@ impl Workbench {
                 molar_rotation: r.molar_rotation,
             })
             .collect();
-        let frames = self.draw_all(&spectra, &view)?;
+        let frames = match self.draw_all(&spectra, &view) {
+            Ok(f) => f,
+            Err(e) => {
+                self.points = last_points;
+                return Err(e.into());
+            }
+        };
         let out = self.report(&view, &frames, lines);
         self.current = Some(Current { model, title: doc.title.clone(), spectra, view });
         Ok(out)
@@ -355,8 +365,9 @@ impl Workbench {
         Ok(format!("{}{}", csv_header(cur, (tidy(from), tidy(to)), step), spectra_csv(&spectra)))
     }
 
-    fn request<'a>(&self, kind: PlotKind, spectra: &'a Spectra, view: &View) -> PlotRequest<'a> {
+    fn request<'a>(&'a self, kind: PlotKind, spectra: &'a Spectra, view: &View) -> PlotRequest<'a> {
         let mut req = PlotRequest::new(kind, spectra, view.axis, view.x_range);
+        req.points = &self.points;
         req.cd_unit = view.cd_unit;
         req.ord_unit = view.ord_unit;
         req.dark = self.options.dark;
@@ -372,7 +383,7 @@ impl Workbench {
 
     /// The request for an export: as on screen, but light (for paper and
     /// wikis), with no band emphasised and no axis held.
-    fn export_request<'a>(&self, kind: PlotKind, cur: &'a Current, o: &FigureOptions, ratio: f64) -> PlotRequest<'a> {
+    fn export_request<'a>(&'a self, kind: PlotKind, cur: &'a Current, o: &FigureOptions, ratio: f64) -> PlotRequest<'a> {
         let mut req = self.request(kind, &cur.spectra, &cur.view);
         req.dark = false;
         req.highlight = None;

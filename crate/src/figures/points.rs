@@ -15,7 +15,7 @@ use plotters::coord::Shift;
 use plotters::prelude::*;
 
 /// Axis label of the residual strip.
-pub const RESIDUAL_LABEL: &str = "data − model";
+pub const RESIDUAL_LABEL: &str = "residual (data − model)";
 /// The strip's share of the figure's height.
 const STRIP_FRACTION: f64 = 0.24;
 
@@ -149,9 +149,12 @@ pub fn strip<DB: DrawingBackend>(
         .axis_desc_style(layout.tick_font.clone())
         .x_label_formatter(&|_| String::new())
         .y_label_formatter(&y_fmt)
-        .y_desc(y.label(RESIDUAL_LABEL))
         .draw()
         .map_err(draw_error)?;
+    // The strip is too low for an upright axis label: the label sits inside, top left.
+    let inner = chart.plotting_area().strip_coord_spec();
+    let at = (layout.em(0.4) as i32, layout.em(0.2) as i32);
+    inner.draw(&Text::new(y.label(RESIDUAL_LABEL), at, layout.tick_font.clone().color(&theme.muted))).map_err(draw_error)?;
     super::draw::zero_line(&mut chart, layout, theme, x, &y)?;
     let measured: Vec<&PointSet> = sets.iter().copied().filter(|s| !s.derived).collect();
     draw_sets(&mut chart, layout, theme, &measured, x, &y, |s| s.residual.as_deref())?;

@@ -221,6 +221,23 @@ run_tests() {
     fi
     passed=$((passed + p)); failed=$((failed + f))
 
+    say "style: cargo fmt --check, cargo clippy -D warnings (native and wasm32)"
+    if (cd "$ROOT/crate" && cargo fmt --check) >"$logs/style.log" 2>&1 \
+        && cargo clippy --manifest-path "$ROOT/Cargo.toml" --all-targets -- -D warnings >>"$logs/style.log" 2>&1 \
+        && cargo clippy --manifest-path "$ROOT/Cargo.toml" -p chiroptic --lib --target "$WASM_TARGET" -- -D warnings >>"$logs/style.log" 2>&1; then
+        report+=("style:   1 passed, 0 failed"); passed=$((passed + 1))
+    else
+        tail -40 "$logs/style.log"
+        report+=("style:   0 passed, 1 failed (see $logs/style.log)"); failed=$((failed + 1))
+    fi
+
+    say "fuzz targets: a brief fixed-seed run of each (crate/fuzz/run.sh --check)"
+    if "$ROOT/crate/fuzz/run.sh" --check 2>&1 | tee "$logs/fuzz.log"; then
+        report+=("fuzz:    1 passed, 0 failed"); passed=$((passed + 1))
+    else
+        report+=("fuzz:    0 passed, 1 failed (see $logs/fuzz.log)"); failed=$((failed + 1))
+    fi
+
     echo
     echo "== chiroptic test summary =="
     printf '  %s\n' "${report[@]}"

@@ -525,12 +525,12 @@ fn broken_files() {
     // 8. An unknown character.
     refused(&xy_file("##DELTAX= 1\n", "1A0J#J\n"), 5, "unexpected character '#' in XYDATA: expected a number or an ASDF character");
     // 9. NPOINTS absurd.
-    refused(&xy_file("##NPOINTS= 20000000\n##DELTAX= 1\n", "1 2 3\n"), 3, "NPOINTS 20000000 is above the limit of 10,000,000 points");
+    refused(&xy_file("##NPOINTS= 20000000\n##DELTAX= 1\n", "1 2 3\n"), 3, "NPOINTS 20000000 is above the limit of 1000000 points");
     refused(&xy_file("##NPOINTS= 176.5\n##DELTAX= 1\n", "1 2 3\n"), 3, "NPOINTS must be a whole number of points, found \"176.5\"");
     // 10. A DUP count absurd.
-    refused(&xy_file("##DELTAX= 1\n", "1A0s9999999\n"), 5, "DUP count 99999999 is above the limit of 10,000,000 points");
+    refused(&xy_file("##DELTAX= 1\n", "1A0s9999999\n"), 5, "DUP count 99999999 is above the limit of 1000000 points");
     // 11. DUP counts that add up past the limit over two lines (9,000,000 points each).
-    refused(&xy_file("##DELTAX= 1\n", "1A1s000000\n9000001A1s000000\n"), 6, "more than 10,000,000 points");
+    refused(&xy_file("##DELTAX= 1\n", "1A1s00000\n900001A1s00000\n"), 6, "more than 1000000 points");
     // 12. XFACTOR 0, YFACTOR NaN, XFACTOR out of range.
     refused(&xy_file("##XFACTOR= 0\n##DELTAX= 1\n", "1 2\n"), 3, "XFACTOR must be a finite number other than 0, found \"0\"");
     refused(&xy_file("##YFACTOR= NaN\n##DELTAX= 1\n", "1 2\n"), 3, "YFACTOR must be a finite number other than 0, found \"NaN\"");

@@ -48,7 +48,9 @@
 use std::fmt;
 
 /// The most points one file may decode to (all blocks together).
-pub const MAX_POINTS: usize = 10_000_000;
+/// The importers' one cap on points (1,000,000: far beyond any spectrum,
+/// and a few tens of MB at most while decoding).
+pub const MAX_POINTS: usize = crate::import::MAX_POINTS;
 
 /// One data block of a JCAMP-DX file.
 #[derive(Debug, Clone, PartialEq)]
@@ -649,11 +651,11 @@ fn scan_xy_line(s: &[u8], exponent: bool, no: usize, budget: usize, out: &mut Ve
                 let digit = if c == b's' { 9 } else { c - b'S' + 1 };
                 let (count, j) = asdf_digits(s, i + 1, digit, false, no)?;
                 if count > MAX_POINTS as f64 {
-                    return err(no, format!("DUP count {} is above the limit of 10,000,000 points", show(count)));
+                    return err(no, format!("DUP count {} is above the limit of {MAX_POINTS} points", show(count)));
                 }
                 let repeats = (count as usize).saturating_sub(1);
                 if out.len().saturating_add(repeats) > budget {
-                    return err(no, "the data would hold more than 10,000,000 points: refused");
+                    return err(no, format!("the data would hold more than {MAX_POINTS} points: refused"));
                 }
                 match last {
                     Last::None => return err(no, "a DUP count with no value before it to repeat"),
@@ -686,7 +688,7 @@ fn scan_xy_line(s: &[u8], exponent: bool, no: usize, budget: usize, out: &mut Ve
         }
     }
     if out.len() > budget {
-        return err(no, "the data would hold more than 10,000,000 points: refused");
+        return err(no, format!("the data would hold more than {MAX_POINTS} points: refused"));
     }
     Ok(Some(Scanned { x, unit, ends_in_dif: matches!(last, Last::Dif(_) | Last::Dup(true)) }))
 }
@@ -770,7 +772,7 @@ impl PointsData {
         }
         let n = values.len() / 2;
         if n > budget {
-            return err(no, "the data would hold more than 10,000,000 points: refused");
+            return err(no, format!("the data would hold more than {MAX_POINTS} points: refused"));
         }
         for pair in values.chunks_exact(2) {
             if pair[0].is_nan() {
@@ -854,7 +856,7 @@ fn finish_block(open: Open, end_line: usize) -> Result<Option<Block>, JcampError
     let npoints = match header(&labels, "NPOINTS")? {
         None => None,
         Some(h) => match h.value {
-            Some(v) if v > MAX_POINTS as f64 => return err(h.line, format!("NPOINTS {} is above the limit of 10,000,000 points", h.text)),
+            Some(v) if v > MAX_POINTS as f64 => return err(h.line, format!("NPOINTS {} is above the limit of {MAX_POINTS} points", h.text)),
             Some(v) if v >= 0.0 && v.fract() == 0.0 => Some((h.line, v as usize)),
             _ => return err(h.line, format!("NPOINTS must be a whole number of points, found {}", excerpt(&h.text))),
         },

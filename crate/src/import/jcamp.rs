@@ -856,7 +856,9 @@ fn finish_block(open: Open, end_line: usize) -> Result<Option<Block>, JcampError
     let npoints = match header(&labels, "NPOINTS")? {
         None => None,
         Some(h) => match h.value {
-            Some(v) if v > MAX_POINTS as f64 => return err(h.line, format!("NPOINTS {} is above the limit of {MAX_POINTS} points", h.text)),
+            Some(v) if v > MAX_POINTS as f64 => {
+                return err(h.line, format!("NPOINTS {} is above the limit of {MAX_POINTS} points", h.text))
+            }
             Some(v) if v >= 0.0 && v.fract() == 0.0 => Some((h.line, v as usize)),
             _ => return err(h.line, format!("NPOINTS must be a whole number of points, found {}", excerpt(&h.text))),
         },

@@ -62,6 +62,9 @@ pub struct Outcome {
 }
 
 pub const RELATIVE_TOLERANCE: f64 = 1e-10;
+/// Damping (relative to the diagonal of J^T J) below which a step is close
+/// to the Gauss-Newton step.
+const LIGHT_DAMPING: f64 = 1e-2;
 
 /// Minimises sum r^2 from u0. `progress(iteration, chi_square)` is called
 /// after every accepted step; returning false cancels.
@@ -76,8 +79,9 @@ pub fn minimise(problem: &dyn Problem, u0: &[f64], max_iterations: usize, progre
     }
     let mut lambda = -1.0;
     let mut grow = 2.0;
-    // Two accepted steps in a row that barely lower chi-square mean a
-    // minimum; one alone may be a heavily damped step.
+    // An accepted step near the Gauss-Newton step (little damping) that
+    // barely lowers chi-square means a minimum; under heavy damping it may
+    // only be a short step, so two in a row are asked for.
     let mut small_steps = 0;
     let mut trial = Vec::new();
     for iteration in 1..=max_iterations {
@@ -134,6 +138,7 @@ pub fn minimise(problem: &dyn Problem, u0: &[f64], max_iterations: usize, progre
             let rho = (chi - new_chi) / predicted.max(1e-300);
             if new_chi.is_finite() && new_chi < chi && rho > 0.0 {
                 let old = chi;
+                let lightly_damped = lambda < LIGHT_DAMPING;
                 u = candidate;
                 problem.jacobian(&u, &mut r, &mut jac);
                 chi = sum_sq(&r);
@@ -151,7 +156,7 @@ pub fn minimise(problem: &dyn Problem, u0: &[f64], max_iterations: usize, progre
                 }
                 if (old - chi) <= RELATIVE_TOLERANCE * old {
                     small_steps += 1;
-                    if small_steps >= 2 {
+                    if small_steps >= 2 || lightly_damped {
                         return Outcome { u, chi_square: chi, iterations: iteration, stop: Stop::Converged };
                     }
                 } else {

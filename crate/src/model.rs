@@ -7,6 +7,13 @@ use crate::lineshape::Lineshape;
 use crate::solvent::{Solvent, PRESETS};
 use crate::units::{self, AxisUnit, SampleContext};
 
+/// The band shapes a document may name, with the names a page shows.
+pub const SHAPES: [(&str, &str); 3] = [("gaussian", "Gaussian"), ("lorentz", "Lorentzian"), ("voigt", "Voigt")];
+/// The prefix of the names given to unnamed bands (B1, B2, ...).
+pub const BAND_NAME_PREFIX: &str = "B";
+/// Most terms an explicit Sellmeier series may have.
+pub const MAX_SELLMEIER_TERMS: usize = 8;
+
 /// Band centres must lie in 50 nm .. 50 um.
 pub const MIN_CENTER_NM: f64 = 50.0;
 pub const MAX_CENTER_NM: f64 = 50_000.0;
@@ -92,11 +99,11 @@ fn solvent_from_doc(s: &SolventDoc) -> Result<Solvent> {
             )
         }),
         (None, None, Some(SellmeierDoc::Coefficients { b, c_um2 })) => {
-            if b.len() != c_um2.len() || b.is_empty() || b.len() > 8 {
+            if b.len() != c_um2.len() || b.is_empty() || b.len() > MAX_SELLMEIER_TERMS {
                 return Err(Error::new(
                     ErrorKind::OutOfRange,
                     "sample.solvent.sellmeier",
-                    format!("needs 1 to 8 terms with as many b as c_um2 (got {} and {})", b.len(), c_um2.len()),
+                    format!("needs 1 to {MAX_SELLMEIER_TERMS} terms with as many b as c_um2 (got {} and {})", b.len(), c_um2.len()),
                 ));
             }
             for (i, (bi, ci)) in b.iter().zip(c_um2).enumerate() {
@@ -185,7 +192,7 @@ fn band_from_doc(i: usize, b: &BandDoc) -> Result<Band> {
             ),
         ));
     }
-    let name = if b.name.trim().is_empty() { format!("B{}", i + 1) } else { b.name.clone() };
+    let name = if b.name.trim().is_empty() { format!("{BAND_NAME_PREFIX}{}", i + 1) } else { b.name.clone() };
     Ok(Band {
         name,
         lineshape,

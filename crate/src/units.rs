@@ -411,6 +411,39 @@ impl OrdUnit {
     }
 }
 
+/// Path length units offered for entry.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum PathUnit {
+    Millimetre,
+    Centimetre,
+    Decimetre,
+}
+
+impl PathUnit {
+    pub const ALL: [PathUnit; 3] = [PathUnit::Millimetre, PathUnit::Centimetre, PathUnit::Decimetre];
+
+    pub fn key(self) -> &'static str {
+        match self {
+            PathUnit::Millimetre => "mm",
+            PathUnit::Centimetre => "cm",
+            PathUnit::Decimetre => "dm",
+        }
+    }
+
+    pub fn parse(key: &str) -> Option<PathUnit> {
+        PathUnit::ALL.into_iter().find(|u| u.key() == key)
+    }
+
+    /// Centimetres per one of this unit.
+    pub fn cm(self) -> f64 {
+        match self {
+            PathUnit::Millimetre => 1.0 / MM_PER_CM,
+            PathUnit::Centimetre => 1.0,
+            PathUnit::Decimetre => CM_PER_DM,
+        }
+    }
+}
+
 /// The absorption units of measured spectra.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum AbsorptionUnit {
@@ -524,6 +557,30 @@ pub enum ConcentrationUnit {
 }
 
 impl ConcentrationUnit {
+    pub const ALL: [ConcentrationUnit; 4] =
+        [ConcentrationUnit::MolPerLitre, ConcentrationUnit::MillimolPerLitre, ConcentrationUnit::MgPerMl, ConcentrationUnit::GramPer100Ml];
+
+    /// The key a page or document uses.
+    pub fn key(self) -> &'static str {
+        match self {
+            ConcentrationUnit::MolPerLitre => "mol/L",
+            ConcentrationUnit::MillimolPerLitre => "mmol/L",
+            ConcentrationUnit::MgPerMl => "mg/mL",
+            ConcentrationUnit::GramPer100Ml => "g/100mL",
+        }
+    }
+
+    pub fn label(self) -> &'static str {
+        match self {
+            ConcentrationUnit::GramPer100Ml => "g/100 mL",
+            other => other.key(),
+        }
+    }
+
+    pub fn parse(key: &str) -> Option<ConcentrationUnit> {
+        ConcentrationUnit::ALL.into_iter().find(|u| u.key() == key)
+    }
+
     pub fn to_mol_per_l(self, value: f64, molar_mass: Option<f64>) -> Result<f64, UnitError> {
         let needs_mass = || UnitError("a mass concentration needs sample.molar_mass_g_per_mol".into());
         Ok(match self {

@@ -1,6 +1,5 @@
 //! The catalog: every name, key, cap and default the page builds its
-//! controls from, so that none is written twice. The concentration and path
-//! menus live here until `units` offers them.
+//! controls from, so that none is written twice.
 
 use super::reply;
 use crate::document::{Document, DEFAULT_VIEW_POINTS, MAX_BANDS, MAX_DOCUMENT_BYTES};
@@ -12,36 +11,18 @@ use serde::Serialize;
 use serde_json::json;
 use wasm_bindgen::prelude::*;
 
-/// Concentration units offered for entry: key, label, core unit.
-const CONCENTRATION_UNITS: [(&str, &str, ConcentrationUnit); 4] = [
-    ("mol/L", "mol/L", ConcentrationUnit::MolPerLitre),
-    ("mmol/L", "mmol/L", ConcentrationUnit::MillimolPerLitre),
-    ("mg/mL", "mg/mL", ConcentrationUnit::MgPerMl),
-    ("g/100mL", "g/100 mL", ConcentrationUnit::GramPer100Ml),
-];
-
 pub fn concentration_unit(key: &str) -> Option<ConcentrationUnit> {
-    CONCENTRATION_UNITS.iter().find(|(k, _, _)| *k == key).map(|(_, _, u)| *u)
+    ConcentrationUnit::parse(key)
 }
 
-/// Path length units offered for entry: key, label, centimetres per unit.
-const PATH_UNITS: [(&str, &str, f64); 3] = [("mm", "mm", 1.0 / units::MM_PER_CM), ("cm", "cm", 1.0), ("dm", "dm", units::CM_PER_DM)];
-
 pub fn cm_per_path_unit(key: &str) -> Option<f64> {
-    PATH_UNITS.iter().find(|(k, _, _)| *k == key).map(|(_, _, f)| *f)
+    units::PathUnit::parse(key).map(|u| u.cm())
 }
 
 /// The ORD units offered on the ORD plot (Δn has its own plot).
 const ORD_MENU: [OrdUnit; 3] = [OrdUnit::Degrees, OrdUnit::SpecificRotation, OrdUnit::MolarRotation];
 
-/// Band shapes the model reads (`model::lineshape_of`), with the names the page shows.
-const SHAPES: [(&str, &str); 3] = [("gaussian", "Gaussian"), ("lorentz", "Lorentzian"), ("voigt", "Voigt")];
-
-/// The prefix of the names the model gives unnamed bands (B1, B2, ...).
-const BAND_NAME_PREFIX: &str = "B";
-
-/// Sellmeier terms a solvent may have (the model's limit).
-const MAX_SELLMEIER_TERMS: usize = 8;
+use crate::model::{BAND_NAME_PREFIX, MAX_SELLMEIER_TERMS, SHAPES};
 
 /// Round steps offered for the CSV export, per axis unit, and the usual one.
 fn csv_steps(key: &str) -> (&'static [f64], f64) {
@@ -84,9 +65,9 @@ pub fn catalog() -> JsValue {
             json!({ "key": key, "label": u.label(), "csv_steps": steps, "csv_step": usual })
         })
         .collect();
-    let concentration: Vec<_> = CONCENTRATION_UNITS
+    let concentration: Vec<_> = ConcentrationUnit::ALL
         .iter()
-        .map(|(key, label, u)| json!({ "key": key, "label": label, "needs_molar_mass": u.to_mol_per_l(1.0, None).is_err() }))
+        .map(|u| json!({ "key": u.key(), "label": u.label(), "needs_molar_mass": u.to_mol_per_l(1.0, None).is_err() }))
         .collect();
     let start = (crate::solvent::WATER_20C_B.to_vec(), crate::solvent::WATER_20C_C_UM2.to_vec());
     reply::ok(&json!({
@@ -94,7 +75,7 @@ pub fn catalog() -> JsValue {
         "cd": CdUnit::ALL.map(|u| Choice { key: u.key(), label: u.label() }),
         "ord": ORD_MENU.map(|u| Choice { key: u.key(), label: u.label() }),
         "concentration": concentration,
-        "path": choices(&PATH_UNITS.map(|(k, l, _)| (k, l))),
+        "path": choices(&units::PathUnit::ALL.map(|u| (u.key(), u.key()))),
         "plots": PlotKind::ALL.map(|k| json!({ "key": k.key(), "title": k.title(), "name": k.name() })),
         "shapes": choices(&SHAPES),
         "lines": STANDARD_LINES.iter().map(|l| json!({ "name": l.name, "wavelength_nm": l.wavelength_nm })).collect::<Vec<_>>(),

@@ -45,7 +45,7 @@ for i, case in enumerate(cases):
 PY
         ;;
         delimited) cp "$ROOT"/fixtures/import/good/* "$ROOT"/fixtures/import/broken/*.txt "$ROOT"/fixtures/fit/*.csv "$dir/" ;;
-        jcamp) cp "$ROOT"/../shared/data/jcamp/*.jdx "$dir/" 2>/dev/null || printf '##TITLE=x\n##JCAMP-DX=4.24\n##XYDATA=(X++(Y..Y))\n1 2 3\n##END=\n' > "$dir/min.jdx" ;;
+        jcamp) cp "$ROOT"/../shared/data/jcamp/*.jdx "$dir/" 2>/dev/null || cp /work/shared/data/jcamp/*.jdx "$dir/" 2>/dev/null || printf '##TITLE=x\n##JCAMP-DX=4.24\n##XYDATA=(X++(Y..Y))\n1 2 3\n##END=\n' > "$dir/min.jdx" ;;
         states) cp "$ROOT"/fixtures/states/example.txt "$dir/" ;;
     esac
 }

@@ -34,7 +34,9 @@ fn main() {
     let mut c = Criterion::default().configure_from_args().sample_size(10).measurement_time(Duration::from_secs(3));
     let list = conformers();
     let b = Broadening::default();
-    let base = Document::from_json(r#"{"chiroptic":1,"sample":{"concentration_mol_per_l":0.001,"path_length_cm":1,"solvent":{"constant":1.0}}}"#).expect("doc");
+    let base =
+        Document::from_json(r#"{"chiroptic":1,"sample":{"concentration_mol_per_l":0.001,"path_length_cm":1,"solvent":{"constant":1.0}}}"#)
+            .expect("doc");
     let nu: Vec<f64> = (0..2000).map(|i| AxisUnit::Nanometre.to_wavenumber(180.0 + 0.1 * i as f64)).collect();
     c.bench_function("states_20x60_broadened_onto_2000", |bench| {
         bench.iter(|| {
@@ -48,9 +50,13 @@ fn main() {
     doc.bands = states::bands(&list, &b).expect("bands");
     let model = Model::from_document(&doc).expect("model");
     let grid: Vec<f64> = (0..1200).map(|i| 2.5 + 0.005 * i as f64).collect();
-    let de = evaluate(&model, &grid.iter().map(|e| AxisUnit::ElectronVolt.to_wavenumber(*e)).collect::<Vec<_>>()).expect("spectra").delta_epsilon;
+    let de = evaluate(&model, &grid.iter().map(|e| AxisUnit::ElectronVolt.to_wavenumber(*e)).collect::<Vec<_>>())
+        .expect("spectra")
+        .delta_epsilon;
     let at: Vec<f64> = (0..600).map(|i| 3.6 + 0.005 * i as f64).collect();
     let measured: Vec<f64> = at.iter().map(|e| chiroptic::processing::interpolate(&grid, &de, e - 0.2).unwrap_or(0.0)).collect();
-    c.bench_function("similarity_shift_search_pm1ev", |bench| bench.iter(|| best_shift(&grid, &de, black_box(&at), &measured, 1.0, 0.01, 1.0)));
+    c.bench_function("similarity_shift_search_pm1ev", |bench| {
+        bench.iter(|| best_shift(&grid, &de, black_box(&at), &measured, 1.0, 0.01, 1.0))
+    });
     c.final_summary();
 }

@@ -38,10 +38,10 @@ use draw::{Placement, XAxis};
 use layout::Layout;
 use plotters::coord::Shift;
 use plotters::prelude::*;
+pub use points::RESIDUAL_LABEL;
 use scale::{value_range, zero_aligned, AxisScale};
 use traces::{axis_positions, traces, Trace};
 pub use traces::{sum_key, KeyEntry};
-pub use points::RESIDUAL_LABEL;
 
 /// The font sizes an export may ask for, in CSS pixels.
 pub const MIN_FONT_PX: f64 = 6.0;

@@ -132,6 +132,8 @@ test("dragging along the strip moves β with the pointer", async () => {
   // The strip is a slider for the keyboard too.
   await page.keyboard.press("ArrowLeft");
   assert.equal(Number(await page.inputValue("#colour-analyser")), beta - 1);
+  // The strip's own value is set when the panel draws (the next frame).
+  await frames(page);
   assert.equal(await page.getAttribute("#colour-strip", "aria-valuenow"), String(beta - 1));
 });
 

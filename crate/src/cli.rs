@@ -119,6 +119,21 @@ enum Verb {
     /// The colour seen through the sample between polarisers: end-on, over
     /// analyser angles, or the tube from the side (single scattering only).
     Colour(colour::ColourArgs),
+    /// Starting bands from measured CD (one per lobe), as a start document for fit.
+    Propose {
+        data: PathBuf,
+        /// A document whose sample the start document keeps: the conditions the
+        /// data were measured at (without it, a notional 1 mol/L in 1 cm).
+        #[arg(long)]
+        add: Option<PathBuf>,
+        /// At most this many bands, the largest lobes first.
+        #[arg(long, default_value_t = 6)]
+        bands: usize,
+        #[command(flatten)]
+        columns: ColumnArgs,
+        #[arg(short = 'o', long)]
+        output: PathBuf,
+    },
     /// Transition lists of computed excited states to a document of broadened bands.
     States {
         #[arg(required = true)]
@@ -342,6 +357,7 @@ pub fn run<I: IntoIterator<Item = OsString>>(args: I) -> i32 {
             eprint!("{notes}");
             result
         }
+        Verb::Propose { data, add, bands, columns, output } => fitting::propose(&data, &columns.flags(), add.as_deref(), bands, &output),
         Verb::Compare { doc, data, from, to, label, columns } => {
             let o = states::CompareOptions { from_nm: from, to_nm: to, label: &label };
             states::run_compare(&doc, &data, &columns.flags(), &o, &mut out)

@@ -392,3 +392,23 @@ fn states_and_compare_assign_a_configuration() {
         &["bad-states.txt", "line 1", "needs its unit"],
     );
 }
+
+#[test]
+fn propose_gives_a_start_that_fit_takes_to_the_minimum() {
+    // The invented problem of fixtures/fit: bands proposed from its CD (with
+    // the start document's sample), then fitted to CD and ORD together: the
+    // chi-square SciPy reaches (scipy_fit.json).
+    let dir = std::env::temp_dir().join(format!("chiroptic-propose-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let (start, fitted) = (dir.join("proposed.json"), dir.join("fitted.json"));
+    let out = chiroptic(&["propose", &fit_fixture("cd.csv"), "--add", &fit_fixture("start.json"), "-o", start.to_str().unwrap()]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let out = chiroptic(&["fit", start.to_str().unwrap(), &fit_fixture("cd.csv"), &fit_fixture("ord.csv"), "-o", fitted.to_str().unwrap()]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let doc = chiroptic::Document::from_json(&std::fs::read_to_string(&fitted).unwrap()).unwrap();
+    let chi = doc.fit.and_then(|f| f.report).expect("report").chi_square;
+    let reference: serde_json::Value = serde_json::from_str(&std::fs::read_to_string(fit_fixture("scipy_fit.json")).unwrap()).unwrap();
+    let want = reference["lm"]["chi_square"].as_f64().unwrap();
+    assert!((chi - want).abs() <= 1e-6 * want, "chi2 {chi} vs SciPy {want}");
+    assert_bad_input(&chiroptic(&["propose", &fit_fixture("ord.csv"), "-o", start.to_str().unwrap()]), &["not CD"]);
+}

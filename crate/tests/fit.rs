@@ -303,3 +303,24 @@ fn scatter_estimate_of_white_noise() {
         .collect();
     assert!((scatter_sigma(&y) / 0.5 - 1.0).abs() < 0.03, "{}", scatter_sigma(&y));
 }
+
+#[test]
+fn bands_proposed_from_the_cd_lead_the_fit_to_the_same_minimum() {
+    // The invented problem's CD alone (truth.json: +6 at 305 nm, -18 at
+    // 262 nm, +25 at 228 nm): one band per lobe, then the joint fit from
+    // there reaches the minimum SciPy reaches from the hand-made start.
+    let reference: serde_json::Value = serde_json::from_str(&fixture("scipy_fit.json")).expect("json");
+    let mut doc = problem_document("start.json");
+    let (_, sets) = sets(&doc);
+    let proposed = chiroptic::fit::propose_bands(&sets[0], 6).expect("proposed");
+    assert_eq!(proposed.len(), 3, "{proposed:?}");
+    for (b, (nm, sign)) in proposed.iter().zip([(305.0, 1.0), (262.0, -1.0), (228.0, 1.0)]) {
+        assert!((b.center_nm - nm).abs() < 8.0, "{} at {} nm, expected near {nm}", b.name, b.center_nm);
+        assert_eq!(b.rotatory_strength_1e40_cgs.signum(), sign, "{}", b.name);
+    }
+    doc.bands = proposed;
+    doc.fit = Some(FitDoc { starts: Some(4), ..FitDoc::default() });
+    let report = run(&doc).report;
+    let chi_ref = reference["lm"]["chi_square"].as_f64().expect("chi2");
+    assert!((report.chi_square - chi_ref).abs() <= 1e-6 * chi_ref, "chi2 {} vs SciPy {chi_ref}", report.chi_square);
+}

@@ -142,3 +142,28 @@ fn significant(v: f64) -> String {
         format!("{v:.digits$}")
     }
 }
+
+/// `propose`: starting bands from a measured CD file, one per lobe, as a
+/// start document for `fit` (the sample from `--add`'s document, or a
+/// notional 1 mol/L in 1 cm when the data are in a molar unit).
+pub fn propose(data: &Path, flags: &ColumnFlags, add: Option<&Path>, max_bands: usize, output: &Path) -> Result<(), Failure> {
+    let origin = data.display().to_string();
+    let table = read_table(data, flags.block)?;
+    let r = table.recognise(&ColumnChoice::default()).map_err(|e| bad(&origin, ErrorKind::MissingField, e.to_string()))?;
+    let (mut doc, model) = match add {
+        Some(p) => load(p)?,
+        None => {
+            let d = super::measured::notional_document();
+            let m = Model::from_document(&d).map_err(|e| Failure::input("notional sample", e))?;
+            (d, m)
+        }
+    };
+    doc.data = vec![data_set_doc("measured", &r, SourceDoc::default())];
+    let set = data_sets(&doc, &model).map_err(|e| Failure::input(&origin, e))?.remove(0);
+    doc.bands = fit::propose_bands(&set, max_bands).map_err(|e| Failure::input(&origin, e))?;
+    doc.data.clear();
+    doc.title = format!("bands proposed from {origin} (a start for fit)");
+    Model::from_document(&doc).map_err(|e| Failure::input("proposed model", e))?;
+    std::fs::write(output, doc.to_json_pretty() + "\n")
+        .map_err(|e| bad(&output.display().to_string(), ErrorKind::Io, format!("cannot write: {e}")))
+}

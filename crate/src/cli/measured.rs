@@ -145,7 +145,7 @@ pub fn import(path: &Path, flags: &ColumnFlags, out: &mut Vec<u8>, notes: &mut V
 /// A notional sample (1 mol/L, 1 cm) when no document gives one: the
 /// transform between sample units (mdeg <-> deg) and between molar units
 /// does not depend on it.
-fn notional_document() -> Document {
+pub(super) fn notional_document() -> Document {
     Document {
         chiroptic: crate::document::FORMAT_VERSION,
         title: String::new(),

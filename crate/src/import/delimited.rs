@@ -175,6 +175,8 @@ pub fn parse(text: &str) -> Result<Table, ImportError> {
 
     let mut x = Vec::new();
     let mut values: Vec<Vec<f64>> = vec![Vec::new(); width - 1];
+    // The file line of each point, for messages about the axis.
+    let mut line_of = Vec::new();
     for (i, line) in all.iter().enumerate().take(end + 1).skip(start) {
         if line.trim().is_empty() {
             continue;
@@ -184,11 +186,12 @@ pub fn parse(text: &str) -> Result<Table, ImportError> {
             return Err(ImportError::at(i + 1, format!("more than {MAX_POINTS} points; the limit is {MAX_POINTS}")));
         }
         x.push(row[0]);
+        line_of.push(i + 1);
         for (col, v) in values.iter_mut().zip(&row[1..]) {
             col.push(*v);
         }
     }
-    check_axis(&x, &all, start, &conforming)?;
+    check_axis(&x, &line_of)?;
 
     // Header: the last non-blank line before the table, when it splits into
     // as many fields; everything else before and after is metadata.
@@ -270,18 +273,16 @@ fn truncate(s: &str, max: usize) -> String {
 }
 
 /// The axis must run one way, without repeats (a spectrum, not a log).
-fn check_axis(x: &[f64], all: &[&str], start: usize, conforming: &dyn Fn(&str) -> Option<Vec<f64>>) -> Result<(), ImportError> {
+fn check_axis(x: &[f64], line_of: &[usize]) -> Result<(), ImportError> {
     if x.len() < 2 {
         return Err(ImportError::whole("the table has fewer than 2 points"));
     }
     let rising = x[1] > x[0];
-    let data_lines: Vec<usize> = (start..all.len()).filter(|i| !all[*i].trim().is_empty() && conforming(all[*i]).is_some()).collect();
     for k in 1..x.len() {
         let ok = if rising { x[k] > x[k - 1] } else { x[k] < x[k - 1] };
         if !ok {
-            let line = data_lines.get(k).map(|i| i + 1).unwrap_or(0);
             return Err(ImportError::at(
-                line,
+                line_of.get(k).copied().unwrap_or(0),
                 format!("the axis must {} throughout; {} follows {}", if rising { "rise" } else { "fall" }, x[k], x[k - 1]),
             ));
         }

@@ -6,7 +6,7 @@
 // and ../shared/data/jcamp/ (public domain, read in place).
 import { test } from "node:test";
 import assert from "node:assert/strict";
-import { readFileSync } from "node:fs";
+import { existsSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import { browserTests, openPage, canvasDigest, ROOT } from "../lib/harness.mjs";
 import { cli, docFile, pageLink, savedModel } from "../lib/page.mjs";
@@ -14,7 +14,8 @@ import { cli, docFile, pageLink, savedModel } from "../lib/page.mjs";
 const env = browserTests();
 const GOOD = join(ROOT, "fixtures", "import", "good");
 const BROKEN = join(ROOT, "fixtures", "import", "broken");
-const JCAMP = join(ROOT, "..", "shared", "data", "jcamp");
+// The shared public-domain files beside the checkout, or where the workplace keeps them.
+const JCAMP = [join(ROOT, "..", "shared", "data", "jcamp"), "/work/shared/data/jcamp"].find((d) => existsSync(d)) ?? join(ROOT, "..", "shared", "data", "jcamp");
 
 /** Drops a file on the plots, as a file dragged from the desktop arrives. */
 async function dropFile(page, path, name = path.split("/").pop()) {
@@ -202,9 +203,46 @@ test("a public-domain JCAMP-DX absorbance file lands on the absorption plot", as
   assert.equal(d.y.length, 440);
   assert.equal(d.y[0], 1.1663, "first Y as the README lists it");
   assert.equal(d.source.format, "jcamp-dx");
-  // A file of several blocks is refused with one message, and nothing changes.
+  // A LINK file of five blocks: the page asks which; block 5 is chosen with
+  // the keyboard (its sum of Y is 11.1047322750, README of the shared files).
   await dropFile(page, join(JCAMP, "blckpac1.jdx"));
-  await page.waitForSelector("#notice:not([hidden])");
-  assert.match(await page.textContent("#notice-text"), /blckpac1\.jdx: .*5 data blocks/);
-  assert.equal((await documentOf(page)).data.length, 1);
+  await page.waitForSelector("#pick-block");
+  assert.equal(await page.locator("#pick-block option").count(), 5);
+  await page.focus("#pick-block");
+  for (let i = 0; i < 4; i++) await page.keyboard.press("ArrowDown");
+  assert.equal(await page.inputValue("#pick-block"), "5");
+  await page.click("#pick-add");
+  await page.waitForFunction(() => window.chiroptic.document().data?.length === 2);
+  const b5 = (await documentOf(page)).data[1];
+  assert.equal(b5.y.length, 176);
+  assert.ok(Math.abs(b5.y.reduce((a, v) => a + v, 0) - 11.104732275) < 1e-8, "block 5's sum of Y");
+  // Cancel leaves everything as it was.
+  await dropFile(page, join(JCAMP, "blckpac1.jdx"));
+  await page.waitForSelector("#pick-block");
+  await page.click("#pick-cancel");
+  assert.equal((await documentOf(page)).data.length, 2);
+});
+
+test("a data set too large for a link says so and keeps the address from a stale link", async () => {
+  // 60,000 points of seeded pseudo-random CD (invented; it barely compresses):
+  // far past the link cap, so the page offers the document file instead.
+  const { page } = await openPage(env);
+  const before = await page.evaluate(() => location.hash);
+  let seed = 7;
+  const random = () => ((seed = (seed * 1103515245 + 12345) % 2147483648) / 2147483648);
+  const rows = ["wavelength_nm,ellipticity_mdeg"];
+  for (let i = 0; i < 60000; i++) rows.push(`${(190 + 0.005 * i).toFixed(3)},${(100 * random() - 50).toFixed(6)}`);
+  await page.evaluate((text) => {
+    const dt = new DataTransfer();
+    dt.items.add(new File([text], "big.csv", { type: "text/plain" }));
+    const target = document.getElementById("plot-grid");
+    for (const type of ["dragenter", "dragover", "drop"]) target.dispatchEvent(new DragEvent(type, { dataTransfer: dt, bubbles: true, cancelable: true }));
+  }, rows.join("\n") + "\n");
+  await page.waitForSelector("#data-link-note:not([hidden])");
+  const note = await page.textContent("#data-link-note");
+  assert.match(note, /more than the 100,000 a link may hold: share the document file instead/);
+  // The set is in the model all the same, and the address holds no link of it.
+  assert.equal((await documentOf(page)).data[0].y.length, 60000);
+  const after = await page.evaluate(() => location.hash);
+  assert.ok(after.length < 100000, `the address is not a link past the cap (${after.length} characters; before: ${before.length})`);
 });

@@ -128,9 +128,11 @@ export const colourSideView = (doc, width, height, illuminant) => reply(() => wa
 /** Import limits, the link cap, the largest smoothing order. */
 export const dataCatalog = () => reply(() => wasm.data_catalog());
 /** A file's table for the column picker: `{ ok, format, columns, rows, recognised, problem, units, ... }`. */
-export const importPreview = (text, name) => reply(() => wasm.import_preview(text, name, undefined));
+export const importPreview = (text, name, block) => reply(() => wasm.import_preview(text, name, block));
+/** The data blocks of a JCAMP-DX file (numbered from 1). */
+export const jcampBlocks = (text, name) => reply(() => wasm.jcamp_blocks(text, name));
 /** The data-set entry of a file with the user's column choice: `{ ok, set }`. */
-export const importDataSet = (doc, text, name, choice) => reply(() => wasm.import_data_set(doc, text, name, undefined, choice ?? null));
+export const importDataSet = (doc, text, name, choice, block) => reply(() => wasm.import_data_set(doc, text, name, block, choice ?? null));
 /** Each set after its processing, for the data list: `{ ok, sets }`. */
 export const dataRows = (doc) => reply(() => wasm.data_rows(doc));
 /** A derived set by Kramers-Kronig from set `i`: `{ ok, set }`. */

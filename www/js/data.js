@@ -31,15 +31,45 @@ export async function openDataFile(file) {
   importText(file.name, await file.text());
 }
 
-export function importText(name, text) {
-  const p = core.importPreview(text, name);
+export function importText(name, text, block) {
+  // A JCAMP-DX file of several blocks (a LINK file): the user picks one.
+  if (block === undefined && /^\s*##/.test(text.replace(/^\uFEFF/, ""))) {
+    const b = core.jcampBlocks(text, name);
+    if (b.ok && b.blocks.length > 1) return showBlockPicker(name, text, b.blocks);
+  }
+  const p = core.importPreview(text, name, block);
   if (!p.ok) return refuse(p.error.message);
-  if (p.recognised) return addSet(name, text, null);
-  showPicker(name, text, p);
+  if (p.recognised) return addSet(name, text, null, block);
+  showPicker(name, text, p, block);
 }
 
-function addSet(name, text, choice) {
-  const r = core.importDataSet(state.doc, text, name, choice);
+/** Which block of a JCAMP-DX file: its number, title, points and units. */
+function showBlockPicker(name, text, blocks) {
+  const dialog = $("data-picker");
+  const pick = el(
+    "select",
+    { id: "pick-block" },
+    ...blocks.map((b) => option(String(b.number), `${b.number}: ${b.title || "(untitled)"} — ${b.points} points${b.y_units ? `, ${b.y_units}` : ""}`)),
+  );
+  const add = el("button", { type: "button", id: "pick-add", textContent: "Read this block" });
+  const cancel = el("button", { type: "button", id: "pick-cancel", textContent: "Cancel" });
+  dialog.replaceChildren(
+    el("h2", { textContent: `Which block? ${name}` }),
+    el("p", { className: "hint-text", textContent: `The file holds ${blocks.length} data blocks; one data set is read from one block.` }),
+    el("div", { className: "form-grid" }, el("label", { htmlFor: "pick-block", textContent: "Block" }), pick),
+    el("div", { className: "button-row" }, add, cancel),
+  );
+  add.addEventListener("click", () => {
+    dialog.close();
+    importText(name, text, Number(pick.value));
+  });
+  cancel.addEventListener("click", () => dialog.close());
+  dialog.showModal();
+  pick.focus();
+}
+
+function addSet(name, text, choice, block) {
+  const r = core.importDataSet(state.doc, text, name, choice, block);
   if (!r.ok) return refuse(r.error.message);
   state.doc.data = [...(state.doc.data ?? []), r.set];
   edit();
@@ -51,7 +81,7 @@ function addSet(name, text, choice) {
 
 const option = (value, text, selected = false) => el("option", { value, textContent: text, selected });
 
-function showPicker(name, text, p) {
+function showPicker(name, text, p, block) {
   const dialog = $("data-picker");
   const axis = el("select", { id: "pick-axis" }, ...p.units.axis.map((u) => option(u.key, u.label, u.key === p.axis)));
   const firstMeasured = Math.max(0, p.columns.findIndex((c) => c.kind?.role === "measured"));
@@ -80,7 +110,7 @@ function showPicker(name, text, p) {
   add.addEventListener("click", () => {
     const choice = { axis: axis.value, column: Number(column.value), quantity: quantity.value, unit: unit.value };
     dialog.close();
-    addSet(name, text, choice);
+    addSet(name, text, choice, block);
   });
   cancel.addEventListener("click", () => dialog.close());
   dialog.showModal();

@@ -30,8 +30,34 @@ fn file_error(name: &str, e: import::ImportError) -> Error {
     Error::new(ErrorKind::Syntax, "file", format!("{name}: {e}"))
 }
 
+/// The last table read, with what identifies its text: the page previews a
+/// file and then makes its data set from the same text, which need not be
+/// read twice.
+struct LastTable {
+    key: (usize, u64, Option<usize>),
+    table: Table,
+}
+
+thread_local! {
+    static LAST_TABLE: std::cell::RefCell<Option<LastTable>> = const { std::cell::RefCell::new(None) };
+}
+
+fn text_hash(text: &str) -> u64 {
+    use std::hash::{Hash, Hasher};
+    let mut h = std::collections::hash_map::DefaultHasher::new();
+    text.hash(&mut h);
+    h.finish()
+}
+
 fn read_table(text: &str, name: &str, block: Option<usize>) -> Result<Table, Error> {
-    import::read(text, block).map_err(|e| file_error(name, e))
+    let key = (text.len(), text_hash(text), block);
+    let cached = LAST_TABLE.with(|c| c.borrow().as_ref().filter(|last| last.key == key).map(|last| last.table.clone()));
+    if let Some(table) = cached {
+        return Ok(table);
+    }
+    let table = import::read(text, block).map_err(|e| file_error(name, e))?;
+    LAST_TABLE.with(|c| *c.borrow_mut() = Some(LastTable { key, table: table.clone() }));
+    Ok(table)
 }
 
 fn kind_value(kind: Option<ColumnKind>) -> Value {
@@ -340,4 +366,22 @@ pub fn data_catalog() -> JsValue {
         "max_link_chars": crate::link::MAX_LINK_CHARS,
         "max_smoothing_order": crate::data::MAX_SMOOTHING_ORDER,
     }))
+}
+
+/// The data blocks of a JCAMP-DX file, for the page's block choice (a LINK
+/// file holds several): `{ ok, blocks: [{ number, title, points, x_units, y_units }] }`,
+/// numbered from 1 as the CLI's `--block` counts them.
+#[wasm_bindgen]
+pub fn jcamp_blocks(text: &str, name: &str) -> JsValue {
+    reply_one(
+        "blocks",
+        (|| {
+            let blocks = import::jcamp::parse(text).map_err(|e| Error::new(ErrorKind::Syntax, "file", format!("{name}: {e}")))?;
+            Ok(blocks
+                .iter()
+                .enumerate()
+                .map(|(i, b)| json!({ "number": i + 1, "title": b.title, "points": b.y.len(), "x_units": b.x_units, "y_units": b.y_units }))
+                .collect::<Vec<_>>())
+        })(),
+    )
 }

@@ -85,26 +85,12 @@ pub fn minimise(problem: &dyn Problem, u0: &[f64], max_iterations: usize, progre
     let mut small_steps = 0;
     let mut trial = Vec::new();
     for iteration in 1..=max_iterations {
-        let m = r.len();
         // Normal equations A = J^T J, g = J^T r.
-        let mut a = vec![0.0; n * n];
+        let a = normal_matrix(&jac, n);
         let mut g = vec![0.0; n];
-        for i in 0..m {
-            let row = &jac[i * n..(i + 1) * n];
-            for p in 0..n {
-                let jp = row[p];
-                if jp == 0.0 {
-                    continue;
-                }
-                g[p] += jp * r[i];
-                for q in p..n {
-                    a[p * n + q] += jp * row[q];
-                }
-            }
-        }
-        for p in 0..n {
-            for q in 0..p {
-                a[p * n + q] = a[q * n + p];
+        for (i, ri) in r.iter().enumerate() {
+            for (gp, jp) in g.iter_mut().zip(&jac[i * n..(i + 1) * n]) {
+                *gp += jp * ri;
             }
         }
         let gmax = g.iter().fold(0.0_f64, |m, v| m.max(v.abs()));
@@ -175,6 +161,28 @@ pub fn minimise(problem: &dyn Problem, u0: &[f64], max_iterations: usize, progre
         }
     }
     Outcome { u, chi_square: chi, iterations: max_iterations, stop: Stop::IterationLimit }
+}
+
+/// J^T J for a row-major Jacobian of `n` columns.
+pub fn normal_matrix(jac: &[f64], n: usize) -> Vec<f64> {
+    let mut a = vec![0.0; n * n];
+    for row in jac.chunks_exact(n.max(1)) {
+        for p in 0..n {
+            let jp = row[p];
+            if jp == 0.0 {
+                continue;
+            }
+            for q in p..n {
+                a[p * n + q] += jp * row[q];
+            }
+        }
+    }
+    for p in 0..n {
+        for q in 0..p {
+            a[p * n + q] = a[q * n + p];
+        }
+    }
+    a
 }
 
 pub fn sum_sq(r: &[f64]) -> f64 {

@@ -467,9 +467,8 @@ fn report(
     mut warnings: Vec<String>,
 ) -> FitReportDoc {
     let values = problem.layout.values(&best.u);
-    let (mut r, mut jv) = (Vec::new(), Vec::new());
-    problem.value_jacobian(&values, &mut r, &mut jv);
-    let np = problem.layout.parameters.len();
+    let (mut r, mut jac) = (Vec::new(), Vec::new());
+    problem.free_value_jacobian(&values, &mut r, &mut jac);
     let n = r.len();
     let k = problem.layout.free.len();
     let dof = n.saturating_sub(k);
@@ -477,23 +476,7 @@ fn report(
     let reduced = if dof > 0 { chi / dof as f64 } else { f64::NAN };
     // Covariance of the free parameters in their model values: (J^T J)^-1,
     // scaled by reduced chi-square when the weights are relative.
-    let free_cols: Vec<usize> = problem.layout.free.iter().map(|(i, _)| *i).collect();
-    let mut a = vec![0.0; k * k];
-    for row in 0..n {
-        for (p, cp) in free_cols.iter().enumerate() {
-            // Linked parameters move with their free one.
-            let jp = column_total(problem, &jv, row, np, p, *cp);
-            for (q, cq) in free_cols.iter().enumerate().skip(p) {
-                a[p * k + q] += jp * column_total(problem, &jv, row, np, q, *cq);
-            }
-        }
-    }
-    for p in 0..k {
-        for q in 0..p {
-            a[p * k + q] = a[q * k + p];
-        }
-    }
-    let covariance = lm::inverse_spd(&a, k);
+    let covariance = lm::inverse_spd(&lm::normal_matrix(&jac, k), k);
     let scale = if relative { reduced } else { 1.0 };
     let se: Vec<f64> = (0..k).map(|p| covariance.as_ref().map(|c| (c[p * k + p] * scale).sqrt()).unwrap_or(f64::NAN)).collect();
     if covariance.is_none() {
@@ -583,19 +566,6 @@ fn report(
         strong_correlations: strong,
         warnings,
     }
-}
-
-/// d r_row / d(free value p): its own column plus those of parameters linked to it.
-fn column_total(problem: &FitProblem, jv: &[f64], row: usize, np: usize, p: usize, own: usize) -> f64 {
-    let mut total = 0.0;
-    for (i, m) in problem.layout.map.iter().enumerate() {
-        if let Some((k, factor, _)) = m {
-            if *k == p {
-                total += jv[row * np + i] * if i == own { 1.0 } else { *factor };
-            }
-        }
-    }
-    total
 }
 
 /// A typical dissymmetry of a band proposed from CD alone (common practice:

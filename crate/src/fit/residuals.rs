@@ -143,23 +143,6 @@ impl FitProblem {
         (o.map(|i| values[i]).unwrap_or(0.0), k.map(|i| values[i]).unwrap_or(1.0))
     }
 
-    /// Model values (in each set's unit) at every point, for the values v.
-    pub fn model_values(&self, values: &[f64]) -> Vec<f64> {
-        let shapes: Vec<Lineshape> = (0..self.kinds.len()).map(|b| self.shape(values, b)).collect();
-        self.points
-            .iter()
-            .map(|p| {
-                let mut sum = 0.0;
-                for (b, shape) in shapes.iter().enumerate() {
-                    let s = shape.value(p.nu);
-                    sum += self.strength(values, b, p.part) * part_of(s, p.part);
-                }
-                let (offset, scale) = self.offset_scale(values, p.set);
-                scale * p.factor * sum + offset
-            })
-            .collect()
-    }
-
     fn strength_column(&self, band: usize, part: Part) -> Option<usize> {
         match part {
             Part::ChiralIm | Part::ChiralRe => self.bands[band].rotatory,
@@ -225,10 +208,29 @@ impl FitProblem {
         }
     }
 
-    /// Residuals and Jacobian with respect to the model's values (for the
-    /// standard errors, which are quoted in the model's values).
-    pub fn value_jacobian(&self, values: &[f64], r: &mut Vec<f64>, jv: &mut Vec<f64>) {
-        self.evaluate(values, r, Some(jv));
+    /// Residuals and the Jacobian with respect to the free parameters'
+    /// own values, linked ones moving with theirs (for the standard errors,
+    /// which are quoted in the model's values).
+    pub fn free_value_jacobian(&self, values: &[f64], r: &mut Vec<f64>, jac: &mut Vec<f64>) {
+        let mut jv = Vec::new();
+        self.evaluate(values, r, Some(&mut jv));
+        self.chain(&jv, r.len(), None, jac);
+    }
+
+    /// The Jacobian on the free variables from the one on every parameter:
+    /// d r / d u_k = sum over parameters set by k of factor * (dv_k/du_k).
+    fn chain(&self, jv: &[f64], rows: usize, slopes: Option<&[f64]>, jac: &mut Vec<f64>) {
+        let np = self.layout.parameters.len();
+        let nf = self.layout.free.len();
+        jac.clear();
+        jac.resize(rows * nf, 0.0);
+        for i in 0..rows {
+            for (p, m) in self.layout.map.iter().enumerate() {
+                if let Some((k, factor, _)) = m {
+                    jac[i * nf + k] += jv[i * np + p] * factor * slopes.map_or(1.0, |s| s[*k]);
+                }
+            }
+        }
     }
 }
 
@@ -276,18 +278,6 @@ impl Problem for FitProblem {
         let values = self.layout.values(u);
         let mut jv = Vec::new();
         self.evaluate(&values, r, Some(&mut jv));
-        // Chain rule onto the free variables: dv_i/du_k = factor * slope_k.
-        let np = self.layout.parameters.len();
-        let nf = self.layout.free.len();
-        let slopes = self.layout.slopes(u);
-        jac.clear();
-        jac.resize(r.len() * nf, 0.0);
-        for i in 0..r.len() {
-            for (p, m) in self.layout.map.iter().enumerate() {
-                if let Some((k, factor, _)) = m {
-                    jac[i * nf + k] += jv[i * np + p] * factor * slopes[*k];
-                }
-            }
-        }
+        self.chain(&jv, r.len(), Some(&self.layout.slopes(u)), jac);
     }
 }

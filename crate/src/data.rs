@@ -62,6 +62,39 @@ pub fn conditions_context(base: &SampleContext, c: Option<&ConditionsDoc>, at: &
     Ok((ctx, temperature))
 }
 
+/// A polarimeter reading at a lamp line, validated, with its conditions.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Reading {
+    pub wavelength_nm: f64,
+    pub wavenumber_cm1: f64,
+    pub rotation_deg: f64,
+    pub sd_deg: Option<f64>,
+    /// The document's sample with the reading's own conditions.
+    pub context: SampleContext,
+}
+
+/// Every reading of the document, checked (field names as `readings[i]...`).
+pub fn readings(doc: &Document, model: &Model) -> Result<Vec<Reading>> {
+    doc.readings
+        .iter()
+        .enumerate()
+        .map(|(i, r)| {
+            let at = format!("readings[{i}]");
+            positive(&format!("{at}.wavelength_nm"), r.wavelength_nm, "wavelength")?;
+            finite(&format!("{at}.rotation_deg"), r.rotation_deg)?;
+            let sd_deg = r.sd_deg.map(|sd| positive(&format!("{at}.sd_deg"), sd, "standard deviation")).transpose()?;
+            let (context, _) = conditions_context(&model.sample.context, r.conditions.as_ref(), &format!("{at}.conditions"))?;
+            Ok(Reading {
+                wavelength_nm: r.wavelength_nm,
+                wavenumber_cm1: AxisUnit::Nanometre.to_wavenumber(r.wavelength_nm),
+                rotation_deg: r.rotation_deg,
+                sd_deg,
+                context,
+            })
+        })
+        .collect()
+}
+
 /// The axis values a document stores.
 pub fn axis_values(x: &AxisValuesDoc, at: &str) -> Result<Vec<f64>> {
     match x {

@@ -300,25 +300,16 @@ pub fn fit(doc: &Document, model: &Model, sets: &[DataSet], progress: &mut dyn F
             }
         })
         .collect();
-    let readings: Vec<(f64, f64, f64, crate::units::SampleContext)> = doc
-        .readings
-        .iter()
-        .enumerate()
-        .map(|(i, r)| {
-            let at = format!("readings[{i}]");
-            crate::error::positive(&format!("{at}.wavelength_nm"), r.wavelength_nm, "wavelength")?;
-            crate::error::finite(&format!("{at}.rotation_deg"), r.rotation_deg)?;
-            let sd = match r.sd_deg {
-                Some(sd) => crate::error::positive(&format!("{at}.sd_deg"), sd, "standard deviation")?,
-                None => {
-                    relative = true;
-                    DEFAULT_READING_SD_DEG
-                }
-            };
-            let (ctx, _) = crate::data::conditions_context(&model.sample.context, r.conditions.as_ref(), &format!("{at}.conditions"))?;
-            Ok((AxisUnit::Nanometre.to_wavenumber(r.wavelength_nm), r.rotation_deg, 1.0 / sd, ctx))
+    let readings: Vec<(f64, f64, f64, crate::units::SampleContext)> = crate::data::readings(doc, model)?
+        .into_iter()
+        .map(|r| {
+            let sd = r.sd_deg.unwrap_or_else(|| {
+                relative = true;
+                DEFAULT_READING_SD_DEG
+            });
+            (r.wavenumber_cm1, r.rotation_deg, 1.0 / sd, r.context)
         })
-        .collect::<Result<_>>()?;
+        .collect();
     let obs = Observations { sets: &fitted_sets, weights: &weights, readings: &readings };
     let problem = FitProblem::new(model, layout, &obs).map_err(|m| Error::new(ErrorKind::OutOfRange, "data", m))?;
     if problem.is_empty() {

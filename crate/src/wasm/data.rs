@@ -329,17 +329,10 @@ pub fn reading_rows(doc: JsValue) -> JsValue {
         (|| {
             let doc = document_from_js(doc)?;
             let model = Model::from_document(&doc)?;
-            doc.readings
+            crate::data::readings(&doc, &model)?
                 .iter()
-                .enumerate()
-                .map(|(i, r)| {
-                    let at = format!("readings[{i}]");
-                    crate::error::positive(&format!("{at}.wavelength_nm"), r.wavelength_nm, "wavelength")?;
-                    crate::error::finite(&format!("{at}.rotation_deg"), r.rotation_deg)?;
-                    let (ctx, _) =
-                        crate::data::conditions_context(&model.sample.context, r.conditions.as_ref(), &format!("{at}.conditions"))?;
-                    let nu = AxisUnit::Nanometre.to_wavenumber(r.wavelength_nm);
-                    let at_sample = rotation_at(r.rotation_deg, nu, &ctx, &model.sample.context)?;
+                .map(|r| {
+                    let at_sample = rotation_at(r.rotation_deg, r.wavenumber_cm1, &r.context, &model.sample.context)?;
                     Ok(json!({ "wavelength_nm": r.wavelength_nm, "rotation_deg": r.rotation_deg, "at_sample_deg": at_sample }))
                 })
                 .collect::<Result<Vec<_>, Error>>()

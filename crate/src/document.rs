@@ -9,14 +9,7 @@ use serde::{Deserialize, Serialize};
 
 /// The major version this build writes and reads.
 pub const FORMAT_VERSION: u32 = 1;
-/// Largest document text accepted (bytes): room for measured data sets (a
-/// 100,000-point set is about 2 MB), far below what would hurt a browser tab.
-pub const MAX_DOCUMENT_BYTES: usize = 16 * 1024 * 1024;
-/// Most measured data sets and lamp-line readings a document may hold.
-pub const MAX_DATA_SETS: usize = 50;
-pub const MAX_READINGS: usize = 200;
-/// Most bands a document may hold.
-pub const MAX_BANDS: usize = 500;
+pub use crate::limits::{MAX_BANDS, MAX_DATA_SETS, MAX_DOCUMENT_BYTES, MAX_READINGS};
 
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]

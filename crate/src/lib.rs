@@ -13,6 +13,7 @@ pub mod figures;
 pub mod fit;
 pub mod import;
 pub mod kk;
+pub mod limits;
 pub mod lines;
 pub mod lineshape;
 pub mod link;

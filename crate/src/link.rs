@@ -41,12 +41,7 @@ use serde_json::{Map, Value};
 
 /// The link format version this build writes and reads.
 pub const LINK_VERSION: u32 = 1;
-/// Longest link text accepted (whole URL included): a 500-band model fits.
-pub const MAX_LINK_CHARS: usize = 100_000;
-/// Largest inflated payload: 2 MiB, below the document size limit (a
-/// document file may carry large data sets; a link is for what a link can
-/// hold, and a decompression bomb must stop early).
-pub const MAX_INFLATED_BYTES: usize = 2 * 1024 * 1024;
+pub use crate::limits::{MAX_INFLATED_BYTES, MAX_LINK_CHARS};
 /// zlib level (miniz scale, 10 = best).
 const LEVEL: u8 = 10;
 

@@ -6,8 +6,7 @@ use crate::model::Model;
 use crate::units::{self, AxisUnit, CdUnit, OrdUnit, SampleContext, UnitError, DIPOLE_CONSTANT, ROTATORY_CONSTANT};
 use std::f64::consts::{LN_10, PI};
 
-/// Largest grid accepted: enough for any spectrum, small enough for a tab.
-pub const MAX_GRID_POINTS: usize = 200_000;
+pub use crate::limits::MAX_GRID_POINTS;
 
 /// A spectral grid, stored as wavenumbers (cm^-1) in the order given.
 #[derive(Debug, Clone, PartialEq)]

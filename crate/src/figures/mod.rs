@@ -203,8 +203,7 @@ pub struct Readout {
     pub values: Vec<(String, f64)>,
 }
 
-/// Largest figure drawn, in pixels per side.
-pub const MAX_FIGURE_PIXELS: u32 = 20_000;
+pub use crate::limits::MAX_FIGURE_PIXELS;
 
 fn range_error(message: impl Into<String>) -> Error {
     Error::new(ErrorKind::OutOfRange, "view.range", message)

@@ -69,9 +69,7 @@ impl Field {
 pub const DEFAULT_FREE: [Field; 3] = [Field::Center, Field::Width, Field::Rotatory];
 pub const DEFAULT_STARTS: u32 = 8;
 pub const DEFAULT_MAX_ITERATIONS: u32 = 300;
-/// Most starts and iterations a document may ask for.
-pub const MAX_STARTS: u32 = 256;
-pub const MAX_ITERATIONS: u32 = 100_000;
+pub use crate::limits::{MAX_ITERATIONS, MAX_STARTS};
 /// |r| above this names a pair as strongly correlated.
 pub const STRONG_CORRELATION: f64 = 0.9;
 /// Polarimeter readability when a reading gives no uncertainty (common practice: 0.002 deg).

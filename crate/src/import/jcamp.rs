@@ -50,7 +50,7 @@ use std::fmt;
 /// The most points one file may decode to (all blocks together).
 /// The importers' one cap on points (1,000,000: far beyond any spectrum,
 /// and a few tens of MB at most while decoding).
-pub const MAX_POINTS: usize = crate::import::MAX_POINTS;
+pub use crate::limits::MAX_POINTS;
 
 /// One data block of a JCAMP-DX file.
 #[derive(Debug, Clone, PartialEq)]

@@ -15,11 +15,7 @@ use std::fmt;
 
 pub use columns::ColumnKind;
 
-/// Largest file the importers read (bytes): 64 MiB is a few million points,
-/// far beyond any spectrum, and refused before it is read into memory.
-pub const MAX_IMPORT_BYTES: u64 = 64 * 1024 * 1024;
-/// Most points one data set may hold.
-pub const MAX_POINTS: usize = 1_000_000;
+pub use crate::limits::{MAX_IMPORT_BYTES, MAX_POINTS};
 
 /// What a measured value is, with its unit.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]

@@ -40,8 +40,7 @@ fn err<T>(line: usize, message: impl Into<String>) -> Result<T, TableError> {
     Err(TableError { line, message: message.into() })
 }
 
-/// Most transitions a file may hold (far beyond any computation).
-pub const MAX_TRANSITIONS: usize = 100_000;
+pub use crate::limits::MAX_TRANSITIONS;
 
 #[derive(Debug, Clone, Copy, PartialEq)]
 enum Column {

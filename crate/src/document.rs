@@ -347,6 +347,9 @@ impl Document {
                 format!("document is {} bytes; the limit is {} bytes", text.len(), MAX_DOCUMENT_BYTES),
             ));
         }
+        // Editors on some systems begin a saved file with a byte-order mark,
+        // which JSON (RFC 8259, section 8.1) allows a reader to ignore.
+        let text = text.strip_prefix('\u{feff}').unwrap_or(text);
         let value: serde_json::Value =
             serde_json::from_str(text).map_err(|e| Error::new(ErrorKind::Syntax, "", format!("not valid JSON: {e}")))?;
         Document::from_value(value)

@@ -192,6 +192,15 @@ impl Table {
     /// Chooses the axis and measured column, from the header where it tells
     /// and from `choice` where the user names them; says which flag to use
     /// when neither does.
+    /// Wavelengths, wavenumbers and photon energies are all positive; a
+    /// table that says otherwise is refused on reading, not when it joins a model.
+    pub fn check_axis(&self, axis: AxisUnit) -> Result<(), ImportError> {
+        match self.x.iter().find(|v| v.is_nan() || **v <= 0.0) {
+            Some(bad) => Err(ImportError::whole(format!("axis values must be positive {} (found {bad})", axis.label()))),
+            None => Ok(()),
+        }
+    }
+
     pub fn recognise(&self, choice: &ColumnChoice) -> Result<Recognised, ImportError> {
         let axis = choice.axis.or(self.axis).ok_or_else(|| {
             ImportError::whole(format!("cannot tell the axis unit from \"{}\"; name it with --x-unit nm|cm-1|ev", self.x_label))
@@ -229,6 +238,7 @@ impl Table {
                 )))
             }
         };
+        self.check_axis(axis)?;
         let find =
             |want: fn(&ColumnKind) -> bool| self.columns.iter().find(|c| c.kind.as_ref().is_some_and(want)).map(|c| c.values.clone());
         Ok(Recognised {

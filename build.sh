@@ -130,6 +130,21 @@ build_page() {
     say "page in dist/ (wasm: $(wc -c <"$DIST/pkg/chiroptic_bg.wasm") bytes)"
 }
 
+# The page with the test build of the module (feature panic-trigger), for the
+# browser test of recovery from a panic; never served or shipped. No wasm-opt:
+# its size and speed do not matter.
+build_panic_page() {
+    local out="$TARGET_DIR/page-panic"
+    say "building the test-only page with a panic trigger (feature panic-trigger)"
+    cargo build --manifest-path "$ROOT/Cargo.toml" -p chiroptic --lib --profile wasm-release --target "$WASM_TARGET" \
+        --features panic-trigger || return 1
+    rm -rf "$out" && mkdir -p "$out/pkg"
+    wasm-bindgen --target web --no-typescript --out-dir "$out/pkg" \
+        "$TARGET_DIR/$WASM_TARGET/wasm-release/chiroptic.wasm" || return 1
+    cp "$ROOT"/www/index.html "$ROOT"/www/style.css "$out/"
+    cp -r "$ROOT"/www/js "$out/js"
+}
+
 # dist/chiroptic.html from the built page in dist/: www/tools/single.mjs
 # bundles the module graph with esbuild (an npm package of tests/).
 build_single() {
@@ -203,10 +218,10 @@ run_tests() {
     say "building the CLI (debug) the browser tests compare with"
     local page_ok=1
     cargo build --manifest-path "$ROOT/Cargo.toml" -p chiroptic --bin chiroptic || page_ok=0
-    if [ "$page_ok" -eq 1 ] && build_page && build_single; then
+    if [ "$page_ok" -eq 1 ] && build_page && build_single && build_panic_page; then
         say "browser tests"
         rm -f "$logs/page.tap"
-        if CHIROPTIC_CLI="$TARGET_DIR/debug/chiroptic" CHIROPTIC_DIST="$DIST" \
+        if CHIROPTIC_CLI="$TARGET_DIR/debug/chiroptic" CHIROPTIC_DIST="$DIST" CHIROPTIC_PANIC_DIST="$TARGET_DIR/page-panic" \
             node --test --test-concurrency=1 \
                 --test-reporter=spec --test-reporter-destination=stdout \
                 --test-reporter=tap --test-reporter-destination="$logs/page.tap" \

@@ -3,8 +3,9 @@
 //! every unit the model shows (through `units`, never a second formula).
 
 use crate::document::{AxisValuesDoc, ConditionsDoc, DataSetDoc, Document, StepDoc};
-use crate::error::{finite, positive, Error, ErrorKind, Result};
+use crate::error::{finite, positive, positive_at_most, Error, ErrorKind, Result};
 use crate::import::{Measured, Recognised, MAX_POINTS};
+use crate::limits::{MAX_CONCENTRATION_MOL_PER_L, MAX_PATH_LENGTH_CM};
 use crate::model::Model;
 use crate::processing;
 use crate::units::{AbsorptionUnit, AxisUnit, CdUnit, OrdUnit, SampleContext, UnitError};
@@ -42,10 +43,11 @@ pub fn conditions_context(base: &SampleContext, c: Option<&ConditionsDoc>, at: &
     let mut temperature = None;
     if let Some(c) = c {
         if let Some(v) = c.concentration_mol_per_l {
-            ctx.concentration_mol_per_l = positive(&format!("{at}.concentration_mol_per_l"), v, "concentration")?;
+            ctx.concentration_mol_per_l =
+                positive_at_most(&format!("{at}.concentration_mol_per_l"), v, MAX_CONCENTRATION_MOL_PER_L, "concentration")?;
         }
         if let Some(v) = c.path_length_cm {
-            ctx.path_length_cm = positive(&format!("{at}.path_length_cm"), v, "path length")?;
+            ctx.path_length_cm = positive_at_most(&format!("{at}.path_length_cm"), v, MAX_PATH_LENGTH_CM, "path length")?;
         }
         if let Some(t) = c.temperature_c {
             let t = finite(&format!("{at}.temperature_c"), t)?;

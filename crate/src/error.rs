@@ -65,6 +65,15 @@ pub fn positive(field: &str, value: f64, what: &str) -> Result<f64> {
     Ok(value)
 }
 
+/// Checks that a value is positive and at most `max` (a cap of `limits`).
+pub fn positive_at_most(field: &str, value: f64, max: f64, what: &str) -> Result<f64> {
+    positive(field, value, what)?;
+    if value > max {
+        return Err(Error::new(ErrorKind::OutOfRange, field, format!("{what} must be at most {max} (got {value})")));
+    }
+    Ok(value)
+}
+
 /// Checks that a value is finite.
 pub fn finite(field: &str, value: f64) -> Result<f64> {
     if !value.is_finite() {

@@ -33,3 +33,23 @@ pub const MAX_STARTS: u32 = 256;
 pub const MAX_ITERATIONS: u32 = 100_000;
 /// Largest figure drawn, in pixels per side.
 pub const MAX_FIGURE_PIXELS: u32 = 20_000;
+
+/// Largest sample concentration (mol/L): pure water is 55.5 mol/L, so no
+/// solution comes near; it keeps every sample unit finite (common practice:
+/// a bound, not a physical law).
+pub const MAX_CONCENTRATION_MOL_PER_L: f64 = 100.0;
+/// Longest path length (cm): 10 m, beyond any polarimeter tube or cell.
+pub const MAX_PATH_LENGTH_CM: f64 = 1000.0;
+/// Largest dipole strength of one band (debye²): the strongest single
+/// electronic transitions are of order 10²; with R bounded by |g| ≤ 2 this
+/// keeps ε, Δε and the indices finite for any band a document may hold.
+pub const MAX_DIPOLE_STRENGTH_DEBYE2: f64 = 1.0e4;
+/// Coupled systems (see `coupled`): most systems a document may hold, most
+/// chromophores in one system, most transitions per chromophore and in one
+/// system. The solve is a complex LU per grid point, O(N^3) in the system's
+/// transitions: 64 on 2000 points is about a second, the most a page edit
+/// should cost.
+pub const MAX_SYSTEMS: usize = 8;
+pub const MAX_CHROMOPHORES: usize = 32;
+pub const MAX_TRANSITIONS_PER_CHROMOPHORE: usize = 4;
+pub const MAX_SYSTEM_TRANSITIONS: usize = 64;

@@ -2,7 +2,8 @@
 //! built from a [`Document`], it is what the spectra are computed from.
 
 use crate::document::{BandDoc, Document, SampleDoc, SellmeierDoc, SolventDoc};
-use crate::error::{finite, positive, Error, ErrorKind, Result};
+use crate::error::{finite, positive, positive_at_most, Error, ErrorKind, Result};
+use crate::limits::{MAX_CONCENTRATION_MOL_PER_L, MAX_DIPOLE_STRENGTH_DEBYE2, MAX_PATH_LENGTH_CM};
 use crate::lineshape::Lineshape;
 use crate::solvent::{Solvent, PRESETS};
 use crate::units::{self, AxisUnit, SampleContext};
@@ -56,8 +57,9 @@ impl Model {
 }
 
 fn sample_from_doc(s: &SampleDoc) -> Result<Sample> {
-    let concentration = positive("sample.concentration_mol_per_l", s.concentration_mol_per_l, "concentration")?;
-    let path = positive("sample.path_length_cm", s.path_length_cm, "path length")?;
+    let concentration =
+        positive_at_most("sample.concentration_mol_per_l", s.concentration_mol_per_l, MAX_CONCENTRATION_MOL_PER_L, "concentration")?;
+    let path = positive_at_most("sample.path_length_cm", s.path_length_cm, MAX_PATH_LENGTH_CM, "path length")?;
     let molar_mass = s.molar_mass_g_per_mol.map(|m| positive("sample.molar_mass_g_per_mol", m, "molar mass")).transpose()?;
     let mrw =
         s.mean_residue_weight_g_per_mol.map(|m| positive("sample.mean_residue_weight_g_per_mol", m, "mean residue weight")).transpose()?;
@@ -176,6 +178,13 @@ fn band_from_doc(i: usize, b: &BandDoc) -> Result<Band> {
             ErrorKind::NotPositive,
             field("dipole_strength_debye2"),
             format!("dipole strength cannot be negative (got {d})"),
+        ));
+    }
+    if d > MAX_DIPOLE_STRENGTH_DEBYE2 {
+        return Err(Error::new(
+            ErrorKind::OutOfRange,
+            field("dipole_strength_debye2"),
+            format!("dipole strength must be at most {MAX_DIPOLE_STRENGTH_DEBYE2} D² (got {d})"),
         ));
     }
     // |g| = |De/e| <= 2 because e_L, e_R >= 0: at the centre of a band g = 4R/D.

@@ -34,6 +34,15 @@ export async function start(canvasOf) {
 /** The name the model gives band i when it has none (B1, B2, ...). */
 export const bandName = (band, i) => band?.name || `${catalog.band_name_prefix}${i + 1}`;
 
+let onStopped = null;
+/** What the page does once the core has stopped (offer to reload the last good model). */
+export function whenStopped(fn) {
+  onStopped = fn;
+}
+
+/** Only in the test build of the module (feature panic-trigger): panics inside the core. */
+export const panicForTests = wasm.panic_for_tests ? () => call(() => wasm.panic_for_tests()) : undefined;
+
 /** Runs a call into the module; a trap there stops every later call. */
 function call(fn) {
   if (dead) return undefined;
@@ -44,9 +53,10 @@ function call(fn) {
     dead = true;
     const box = $("fatal");
     if (box.hidden) {
-      box.textContent = `The calculation core stopped on an internal error (${e.message}). Save your model, then reload the page.`;
+      box.textContent = `The calculation core stopped on an internal error (${e.message}).`;
       box.hidden = false;
     }
+    onStopped?.(box);
     return undefined;
   }
 }

@@ -20,7 +20,11 @@ export function refresh() {
   const t0 = performance.now();
   const result = core.update(state.doc, state.options);
   const ms = performance.now() - t0;
-  if (result.error?.kind === "stopped") return false;
+  // A stopped core validates nothing: later edits are kept on screen but never become the "good" model.
+  if (result.error?.kind === "stopped") {
+    state.valid = false;
+    return false;
+  }
   state.valid = result.ok;
   if (result.ok) {
     state.coreError = null;

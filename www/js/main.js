@@ -7,7 +7,7 @@ import * as core from "./core.js";
 import { sayDone, showNotice } from "./messages.js";
 import { loadDocument } from "./edit.js";
 import { bindHistory, resetHistory } from "./history.js";
-import { readFragment, firstDocument, bindPersistence } from "./persist.js";
+import { readFragment, firstDocument, bindPersistence, reloadWith } from "./persist.js";
 import { bindPlots, sizeCanvases } from "./plots.js";
 import { bandHandles } from "./peakdrag.js";
 import { bindWindow } from "./window.js";
@@ -32,6 +32,8 @@ async function main() {
     drawnText: (key) => core.drawnText(key),
     bandHandles: () => bandHandles().map(({ i, px, py }) => ({ i, px, py })),
     frames: () => structuredClone(state.drawn?.frames ?? []),
+    // Present only when the module is the test build (feature panic-trigger).
+    ...(core.panicForTests ? { panicForTests: core.panicForTests } : {}),
   });
   bindTheme();
   const fragment = readFragment();
@@ -61,7 +63,20 @@ async function main() {
   if (first.notes.length) showNotice(first.notes.join(" "), { passing: true });
   if (first.from === "autosave") sayDone("Restored the model autosaved in this browser");
   bindPersistence();
+  core.whenStopped(offerReload);
   document.documentElement.dataset.ready = "true";
+}
+
+/** After a panic in the core: one click reloads the page on the last model the core accepted. */
+function offerReload(box) {
+  if (box.querySelector("button")) return;
+  const lastGood = structuredClone(state.goodDoc ?? state.doc);
+  const button = document.createElement("button");
+  button.type = "button";
+  button.id = "fatal-reload";
+  button.textContent = "Reload with the last good model";
+  button.addEventListener("click", () => reloadWith(lastGood));
+  box.append(" ", button);
 }
 
 main().catch((e) => {

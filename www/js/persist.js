@@ -96,6 +96,18 @@ export function persistSoon(ms = 300) {
   persistTimer = setTimeout(persist, ms);
 }
 
+/**
+ * Reloads the page on `doc` (after the core stopped, when links can no
+ * longer be made): the autosave holds it and the address drops its link, so
+ * that the new page opens the autosave.
+ */
+export function reloadWith(doc) {
+  clearTimeout(persistTimer);
+  writeAutosave(doc);
+  history.replaceState(null, "", location.pathname + location.search);
+  location.reload();
+}
+
 function persist() {
   if (state.wiki || !state.goodDoc) return;
   const link = currentLink();

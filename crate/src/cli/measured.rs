@@ -111,7 +111,6 @@ pub fn import(path: &Path, flags: &ColumnFlags, out: &mut Vec<u8>, notes: &mut V
             format!("cannot tell the axis unit from \"{}\"; name it with --x-unit nm|cm-1|ev", table.x_label),
         )
     })?;
-    table.check_axis(axis).map_err(|e| bad(&origin, ErrorKind::OutOfRange, e.to_string()))?;
     notes.extend(table.notes.iter().cloned());
     let first_measured = table.columns.iter().find_map(|c| match c.kind {
         Some(ColumnKind::Measured(m)) => Some(m),

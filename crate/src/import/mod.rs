@@ -144,14 +144,16 @@ pub struct Recognised {
 /// (or any `##` label), else delimited text.
 pub fn read(text: &str, block: Option<usize>) -> Result<Table, ImportError> {
     let trimmed = text.trim_start_matches('\u{feff}').trim_start();
-    if trimmed.starts_with("##") {
-        jcamp_table(text, block)
+    let table = if trimmed.starts_with("##") {
+        jcamp_table(text, block)?
     } else {
         if block.is_some() {
             return Err(ImportError::whole("--block applies to JCAMP-DX files only; this is delimited text"));
         }
-        delimited::parse(text)
-    }
+        delimited::parse(text)?
+    };
+    table.check_axis()?;
+    Ok(table)
 }
 
 fn jcamp_table(text: &str, block: Option<usize>) -> Result<Table, ImportError> {
@@ -194,9 +196,9 @@ impl Table {
     /// when neither does.
     /// Wavelengths, wavenumbers and photon energies are all positive; a
     /// table that says otherwise is refused on reading, not when it joins a model.
-    pub fn check_axis(&self, axis: AxisUnit) -> Result<(), ImportError> {
+    fn check_axis(&self) -> Result<(), ImportError> {
         match self.x.iter().find(|v| v.is_nan() || **v <= 0.0) {
-            Some(bad) => Err(ImportError::whole(format!("axis values must be positive {} (found {bad})", axis.label()))),
+            Some(bad) => Err(ImportError::whole(format!("axis values must be positive (found {bad} in \"{}\")", self.x_label))),
             None => Ok(()),
         }
     }
@@ -238,7 +240,6 @@ impl Table {
                 )))
             }
         };
-        self.check_axis(axis)?;
         let find =
             |want: fn(&ColumnKind) -> bool| self.columns.iter().find(|c| c.kind.as_ref().is_some_and(want)).map(|c| c.values.clone());
         Ok(Recognised {

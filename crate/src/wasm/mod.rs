@@ -40,6 +40,14 @@ pub fn start() {
     }));
 }
 
+/// Panics on purpose: only in the test build (feature `panic-trigger`), for
+/// the browser test of the page's recovery (tests/e2e/panic.test.mjs).
+#[cfg(feature = "panic-trigger")]
+#[wasm_bindgen]
+pub fn panic_for_tests() {
+    panic!("the test-only panic trigger");
+}
+
 /// Shows a panic in the page's `#fatal` box: the module cannot be used after
 /// a panic, so the page must say so instead of silently freezing.
 fn show_fatal(message: &str) {
@@ -47,7 +55,7 @@ fn show_fatal(message: &str) {
     if let Some(el) = doc.get_element_by_id("fatal") {
         el.set_text_content(Some(&format!(
             "The calculation core stopped on an internal error and must be reloaded. \
-             Your model is kept: save it (or copy the address) before reloading. Details: {message}"
+             Your last good model is kept in the address and in this browser. Details: {message}"
         )));
         let _ = el.remove_attribute("hidden");
     }

@@ -412,9 +412,11 @@ fn odd_inputs_give_errors_or_finite_colours() {
     assert_eq!(colour::parse_illuminant("LED").unwrap(), Illuminant::Led);
     // A huge angle is just an angle.
     assert!(colour::end_on(&m, 1e15, Illuminant::D65).unwrap().xyz.iter().all(|v| v.is_finite()));
-    // An absorbing sample over a very long path: black, not NaN.
+    // An absorbing sample over the longest path a document may hold: black, not NaN.
+    let too_long = json!({"chiroptic": 1, "sample": {"concentration_mol_per_l": 1.0, "path_length_cm": 1e6, "solvent": {"constant": 1.33}}, "bands": []});
+    assert!(Model::from_json(&too_long.to_string()).is_err(), "a 10 km path is refused (limits::MAX_PATH_LENGTH_CM)");
     let mut dye = json!({"chiroptic": 1,
-        "sample": {"concentration_mol_per_l": 1.0, "path_length_cm": 1e6, "solvent": {"constant": 1.33}},
+        "sample": {"concentration_mol_per_l": 1.0, "path_length_cm": chiroptic::limits::MAX_PATH_LENGTH_CM, "solvent": {"constant": 1.33}},
         "bands": [{"shape": "gaussian", "center_nm": 520.0, "fwhm_cm1": 2500.0, "rotatory_strength_1e40_cgs": 5000.0, "dipole_strength_debye2": 20.0}]});
     let c = colour::end_on(&model_of(&dye), 0.0, Illuminant::A).unwrap();
     assert!(c.xyz.iter().all(|v| v.is_finite() && *v >= 0.0) && c.srgb_8bit == [0, 0, 0], "{c:?}");

@@ -204,8 +204,9 @@ run_tests() {
 
     ensure_test_tools
 
-    say "Rust tests: cargo test --workspace"
-    if cargo test --workspace 2>&1 | tee "$logs/cargo.log"; then
+    # --no-fail-fast: every test binary runs and is counted, not only those before the first failure.
+    say "Rust tests: cargo test --workspace --no-fail-fast"
+    if cargo test --workspace --no-fail-fast 2>&1 | tee "$logs/cargo.log"; then
         read -r p f < <(cargo_counts "$logs/cargo.log")
         report+=("rust:    $p passed, $f failed")
     else

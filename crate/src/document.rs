@@ -32,6 +32,59 @@ pub struct Document {
     /// Fit settings and, after a fit, its report.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub fit: Option<FitDoc>,
+    /// Coupled chromophores (see `coupled`), added to the bands' spectra.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub systems: Vec<SystemDoc>,
+}
+
+/// Chromophores whose transitions couple through the dipole field (DeVoe's
+/// polarisability model, see `coupled`).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct SystemDoc {
+    #[serde(default, skip_serializing_if = "String::is_empty")]
+    pub name: String,
+    /// Divide the dipole-dipole coupling by the solvent's n^2.
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    pub screened: bool,
+    /// Turn the coupling off (the transitions then act as plain bands).
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    pub uncoupled: bool,
+    pub chromophores: Vec<ChromophoreDoc>,
+}
+
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ChromophoreDoc {
+    #[serde(default, skip_serializing_if = "String::is_empty")]
+    pub name: String,
+    /// Position, angstrom.
+    pub position_angstrom: [f64; 3],
+    /// Transition direction (unit vector) of the chromophore's transitions.
+    pub direction: [f64; 3],
+    pub transitions: Vec<TransitionDoc>,
+}
+
+/// One transition of a chromophore: a band whose rotatory strength is its
+/// intrinsic one (zero by default) and whose direction, when given, is its own.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct TransitionDoc {
+    /// `lorentz`, `gaussian` or `voigt`.
+    pub shape: String,
+    pub center_nm: f64,
+    pub fwhm_cm1: f64,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub lorentz_fwhm_cm1: Option<f64>,
+    pub dipole_strength_debye2: f64,
+    #[serde(default, skip_serializing_if = "is_zero")]
+    pub rotatory_strength_1e40_cgs: f64,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub direction: Option<[f64; 3]>,
+}
+
+fn is_zero(v: &f64) -> bool {
+    *v == 0.0
 }
 
 /// How to fit the bands to the data (see `fit`), and the last report.

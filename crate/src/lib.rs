@@ -6,6 +6,7 @@
 //! [`spectra::Spectra`] -> CSV, figures, the page.
 
 pub mod colour;
+pub mod coupled;
 pub mod data;
 pub mod document;
 pub mod error;

@@ -37,6 +37,8 @@ pub struct Sample {
 pub struct Model {
     pub sample: Sample,
     pub bands: Vec<Band>,
+    /// Coupled chromophores, added to the bands' spectra (see `coupled`).
+    pub systems: Vec<crate::coupled::System>,
 }
 
 impl Model {
@@ -46,13 +48,14 @@ impl Model {
 
     pub fn from_document(doc: &Document) -> Result<Model> {
         let sample = sample_from_doc(&doc.sample)?;
-        let bands = doc.bands.iter().enumerate().map(|(i, b)| band_from_doc(i, b)).collect::<Result<Vec<_>>>()?;
-        Ok(Model { sample, bands })
+        let bands = doc.bands.iter().enumerate().map(|(i, b)| band_from_doc(&format!("bands[{i}]"), i, b)).collect::<Result<Vec<_>>>()?;
+        let systems = crate::coupled::System::all_from_docs(&doc.systems)?;
+        Ok(Model { sample, bands, systems })
     }
 
-    /// Band centres in cm^-1.
+    /// Band centres in cm^-1 (the coupled systems' transitions after the bands).
     pub fn centers(&self) -> impl Iterator<Item = f64> + '_ {
-        self.bands.iter().map(|b| b.lineshape.center())
+        self.bands.iter().map(|b| b.lineshape.center()).chain(self.systems.iter().flat_map(|s| s.centers()))
     }
 }
 
@@ -127,8 +130,10 @@ pub fn dissymmetry_limited_dipole_strength(r_1e40: f64) -> f64 {
 /// |g| = |De / e| cannot exceed 2 (e_L and e_R are both non-negative).
 pub const MAX_DISSYMMETRY: f64 = 2.0;
 
-fn band_from_doc(i: usize, b: &BandDoc) -> Result<Band> {
-    let field = |name: &str| format!("bands[{i}].{name}");
+/// Validates one band; `at` is its field path (`bands[2]`, or a coupled
+/// transition's), `i` its index for a default name.
+pub(crate) fn band_from_doc(at: &str, i: usize, b: &BandDoc) -> Result<Band> {
+    let field = |name: &str| format!("{at}.{name}");
     let center_nm = finite(&field("center_nm"), b.center_nm)?;
     if !(MIN_CENTER_NM..=MAX_CENTER_NM).contains(&center_nm) {
         return Err(Error::new(

@@ -58,8 +58,8 @@ impl Grid {
     pub fn default_range_nm(model: &Model) -> (f64, f64) {
         let mut lo = 180.0_f64;
         let mut hi = 650.0_f64;
-        for b in &model.bands {
-            let nm = AxisUnit::Nanometre.from_wavenumber(b.lineshape.center());
+        for center in model.centers() {
+            let nm = AxisUnit::Nanometre.from_wavenumber(center);
             lo = lo.min(0.9 * nm);
             hi = hi.max(1.25 * nm);
         }
@@ -147,6 +147,17 @@ pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
             epsilon: shape.iter().zip(&eps_per_k).map(|(s, f)| f * d * s.im).collect(),
             rotation_deg: shape.iter().zip(&deg_per_dn).map(|(s, f)| f * r * s.re).collect(),
         });
+    }
+
+    // Coupled chromophores (coupled): their response joins the bands'.
+    for system in &model.systems {
+        let (chiral, mean) = system.response(wavenumber_cm1, &n_solvent)?;
+        for i in 0..n {
+            delta_n[i] += chiral_scale * chiral[i].re;
+            delta_k[i] += chiral_scale * chiral[i].im;
+            dn_mean[i] += mean_scale * mean[i].re;
+            k_mean[i] += mean_scale * mean[i].im;
+        }
     }
 
     let mean_n: Vec<f64> = n_solvent.iter().zip(&dn_mean).map(|(a, b)| a + b).collect();

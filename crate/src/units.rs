@@ -49,6 +49,19 @@ pub const ROTATORY_CONSTANT: f64 = 3.0 * PLANCK_ERG_S * LIGHT_CM_PER_S * LN_10 *
 /// Dipole-strength constant C_D = 4 C_R in D = C_D * int (e/nu) dnu.
 pub const DIPOLE_CONSTANT: f64 = 4.0 * ROTATORY_CONSTANT;
 
+/// Centimetres per angstrom (positions of coupled chromophores are given in angstrom).
+pub const CM_PER_ANGSTROM: f64 = 1e-8;
+
+/// Polarisability (cm^3) per unit of dipole strength (esu^2 cm^2) times the
+/// mean index shape s~ (cm): alpha = pi/(h c) D s~, because far from a band
+/// s~ -> (2/pi) nu_j/(nu_j^2 - nu^2) and the oscillator's polarisability is
+/// (2/(h c)) D nu_j/(nu_j^2 - nu^2) (see coupled).
+pub const POLARISABILITY_PER_DIPOLE_SHAPE: f64 = PI / (PLANCK_ERG_S * LIGHT_CM_PER_S);
+
+/// Coupling energy in cm^-1 per (debye^2 / nm^3): (1e-36 esu^2 cm^2) / (1e-7 cm)^3 / (h c),
+/// about 5.034 (the "5.04" of exciton texts).
+pub const WAVENUMBER_PER_DEBYE2_PER_NM3: f64 = ESU2_CM2_PER_DEBYE2 * NM_PER_CM * NM_PER_CM * NM_PER_CM / (PLANCK_ERG_S * LIGHT_CM_PER_S);
+
 /// Ellipticity in degrees per unit DA: (ln10/4)(180/pi), about 32.98.
 pub const ELLIPTICITY_DEG_PER_DELTA_A: f64 = LN_10 / 4.0 * DEG_PER_RAD;
 

@@ -65,6 +65,7 @@ fn ten_bands(full_precision_widths: bool) -> Document {
         data: Vec::new(),
         readings: Vec::new(),
         fit: None,
+        systems: Vec::new(),
         chiroptic: 1,
         title: "INVENTED ten-band model".into(),
         sample: SampleDoc {
@@ -274,6 +275,7 @@ fn document() -> impl Strategy<Value = Document> {
             data: Vec::new(),
             readings: Vec::new(),
             fit: None,
+            systems: Vec::new(),
         })
 }
 

@@ -43,6 +43,7 @@ fn doc(concentration: f64, path_cm: f64, molar_mass: Option<f64>, bands: Vec<Ban
         data: Vec::new(),
         readings: Vec::new(),
         fit: None,
+        systems: Vec::new(),
     }
 }
 

@@ -161,6 +161,7 @@ pub(super) fn notional_document() -> Document {
         data: Vec::new(),
         readings: Vec::new(),
         fit: None,
+        systems: Vec::new(),
     }
 }
 

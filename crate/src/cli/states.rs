@@ -94,6 +94,7 @@ pub fn run_states(o: &StatesOptions, notes: &mut String) -> Result<(), Failure> 
         data: Vec::new(),
         readings: Vec::new(),
         fit: None,
+        systems: Vec::new(),
     };
     crate::model::Model::from_document(&doc).map_err(|e| Failure::input("broadened model", e))?;
     notes.push_str("note: a truncated sum over computed states is a rough estimate of [α]_D; compare the CD, not the rotation alone\n");

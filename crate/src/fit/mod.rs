@@ -269,6 +269,15 @@ fn parameter_mode(doc: &Document, model: &Model, p: &FitParameterDoc, field: Fie
 
 /// Fits the document's bands to its data sets and readings.
 pub fn fit(doc: &Document, model: &Model, sets: &[DataSet], progress: &mut dyn FnMut(usize, usize, f64) -> bool) -> Result<Fitted> {
+    if !model.systems.is_empty() {
+        // The residuals and their Jacobian are built from bands only; fitting
+        // a coupled system's geometry is not implemented yet (issue 15).
+        return Err(Error::new(
+            ErrorKind::OutOfRange,
+            "systems",
+            "fitting a document with coupled systems is not supported yet; remove the systems or fit the bands alone",
+        ));
+    }
     let settings = doc.fit.clone().unwrap_or_default();
     let starts = settings.starts.unwrap_or(DEFAULT_STARTS);
     let max_iterations = settings.max_iterations.unwrap_or(DEFAULT_MAX_ITERATIONS);

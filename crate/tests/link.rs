@@ -222,11 +222,18 @@ fn band() -> impl Strategy<Value = BandDoc> {
                 center_nm,
                 fwhm_cm1: width_frac * center_cm1,
                 lorentz_fwhm_cm1: lorentz,
-                rotatory_strength_1e40_cgs: r,
-                // A valid band has |g| = 4|R|/D <= 2 (physics.md).
-                dipole_strength_debye2: d.max(chiroptic::model::dissymmetry_limited_dipole_strength(r)),
+                rotatory_strength_1e40_cgs: r.clamp(-max_r(), max_r()),
+                // A valid band has |g| = 4|R|/D <= 2 (physics.md) and D within its cap.
+                dipole_strength_debye2: d
+                    .min(chiroptic::limits::MAX_DIPOLE_STRENGTH_DEBYE2)
+                    .max(chiroptic::model::dissymmetry_limited_dipole_strength(r.clamp(-max_r(), max_r()))),
             }
         })
+}
+
+/// The largest |R| a band may have with D at its cap, |g| <= 2 (a little below, for rounding).
+fn max_r() -> f64 {
+    0.99 * chiroptic::limits::MAX_DIPOLE_STRENGTH_DEBYE2 / chiroptic::model::dissymmetry_limited_dipole_strength(1.0)
 }
 
 fn view() -> impl Strategy<Value = ViewDoc> {

@@ -35,6 +35,15 @@ async function dropBytes(page, name, bytes) {
 /** Markup a hostile file might have injected: counted before and after. */
 const markupCount = (page) => page.evaluate(() => document.querySelectorAll("script, img, iframe, object, embed, b").length);
 
+/** After the corpus: no markup from a file in the page, no console error, and the next edit is drawn. */
+async function assertUnharmed(page, markup, log) {
+  assert.equal(await markupCount(page), markup, "no markup from a file reached the page");
+  const plots = await plotHashes(page);
+  await enter(page, "#band-0-r", "7.25");
+  assert.notDeepEqual(await plotHashes(page), plots, "the edit is drawn");
+  assert.deepEqual(log.errors, []);
+}
+
 test("every hostile model file is refused with one message naming it, or opened cleanly, and the model stays", async () => {
   const { page, context, log } = await openPage(env);
   try {
@@ -61,12 +70,7 @@ test("every hostile model file is refused with one message naming it, or opened 
       await page.evaluate(() => (document.getElementById("status").textContent = ""));
     }
     assert.ok(refused >= 25, `${refused} refused`);
-    assert.equal(await markupCount(page), markup, "no markup from a file reached the page");
-    // The page still answers an edit: the plots change.
-    const plots = await plotHashes(page);
-    await enter(page, "#band-0-r", "7.25");
-    assert.notDeepEqual(await plotHashes(page), plots, "the edit is drawn");
-    assert.deepEqual(log.errors, []);
+    await assertUnharmed(page, markup, log);
   } finally {
     await context.close();
   }
@@ -98,11 +102,7 @@ test("every hostile data file dropped on the plots gets one message naming it, a
       assert.equal(await page.$$eval("#notice:not([hidden])", (n) => n.length), 1, `${e.file}: one message`);
       assert.deepEqual(await docOf(page), kept, `${e.file}: model and data unchanged`);
     }
-    assert.equal(await markupCount(page), markup, "no markup from a file reached the page");
-    const plots = await plotHashes(page);
-    await enter(page, "#band-0-r", "7.25");
-    assert.notDeepEqual(await plotHashes(page), plots, "the edit is drawn");
-    assert.deepEqual(log.errors, []);
+    await assertUnharmed(page, markup, log);
   } finally {
     await context.close();
   }

@@ -19,6 +19,8 @@ use std::path::{Path, PathBuf};
 mod colour;
 /// The export and share verbs (render, link, open).
 mod fitting;
+/// Coupled-system geometry tables.
+mod geometry;
 mod measured;
 mod share;
 mod states;
@@ -98,6 +100,24 @@ enum Verb {
     Open {
         /// The link, its fragment, or "-" to read it from standard input.
         link: String,
+    },
+    /// A coupled system from a geometry table (chromophore x y z ex ey ez
+    /// shape center_nm fwhm_cm1 dipole_debye2 [rotatory_1e40]; angstrom),
+    /// added to a document (or a new one), written as JSON.
+    GeometryImport {
+        table: PathBuf,
+        /// The document to add the system to.
+        #[arg(long)]
+        into: Option<PathBuf>,
+        #[arg(long, default_value = "")]
+        name: String,
+    },
+    /// One coupled system of a document as a geometry table.
+    GeometryExport {
+        doc: PathBuf,
+        /// Which system (from 0).
+        #[arg(long, default_value_t = 0)]
+        system: usize,
     },
     /// What the tool understood of a data file (delimited text or JCAMP-DX), as CSV.
     Import {
@@ -314,6 +334,8 @@ pub fn run<I: IntoIterator<Item = OsString>>(args: I) -> i32 {
         }
         Verb::Link { doc, base } => share::link(&doc, &base, &mut out),
         Verb::Open { link } => share::open(&link, &mut out),
+        Verb::GeometryImport { table, into, name } => geometry::import(&table, into.as_deref(), &name, &mut out),
+        Verb::GeometryExport { doc, system } => geometry::export(&doc, system, &mut out),
         Verb::Import { file, columns } => {
             let mut notes = Vec::new();
             let result = measured::import(&file, &columns.flags(), &mut out, &mut notes);

@@ -326,3 +326,33 @@ fn table_and_validation() {
     let d = document(vec![couplet(6.0, 30.0, &transition("gaussian", 2500.0))]);
     assert_eq!(Document::from_json(&d.to_json()).unwrap(), d);
 }
+
+/// The CLI (architecture.md: bad input exits non-zero with one line naming
+/// the file and the field): geometry-import, eval on the result, geometry-export.
+#[test]
+fn cli_geometry_verbs() {
+    let dir = std::env::temp_dir().join(format!("chiroptic-coupled-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let table_path = dir.join("pair.txt");
+    // Invented demo geometry: a 45° couplet 7 Å apart.
+    std::fs::write(&table_path, "a 0 0 -3.5 1 0 0 gaussian 300 2500 50\nb 0 0 3.5 0.7071068 0.7071068 0 gaussian 300 2500 50\n").unwrap();
+    let bin = env!("CARGO_BIN_EXE_chiroptic");
+    let out = std::process::Command::new(bin).arg("geometry-import").arg(&table_path).output().unwrap();
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let doc_path = dir.join("pair.json");
+    std::fs::write(&doc_path, &out.stdout).unwrap();
+    let eval = std::process::Command::new(bin)
+        .args(["eval", doc_path.to_str().unwrap(), "--from", "320", "--to", "330", "--step", "10"])
+        .output()
+        .unwrap();
+    assert!(eval.status.success());
+    let back = std::process::Command::new(bin).args(["geometry-export", doc_path.to_str().unwrap()]).output().unwrap();
+    assert_eq!(table::parse(&String::from_utf8_lossy(&back.stdout), "").unwrap().chromophores.len(), 2);
+    std::fs::write(&table_path, "a 0 0 0 0 0 0 gaussian 300 2500 50\nb 0 0 3.5 1 0 0 gaussian 300 2500 50\n").unwrap();
+    let bad = std::process::Command::new(bin).arg("geometry-import").arg(&table_path).output().unwrap();
+    let message = String::from_utf8_lossy(&bad.stderr);
+    assert_eq!(bad.status.code(), Some(2));
+    assert_eq!(message.trim().lines().count(), 1);
+    assert!(message.contains("systems[0].chromophores[0].direction"), "{message}");
+    std::fs::remove_dir_all(&dir).ok();
+}

@@ -1,0 +1,54 @@
+//! Speed of coupled chromophores (issue 15 targets): 2 chromophores x 1
+//! transition on 2000 points (< 2 ms), and 20 chromophores x 2 transitions on
+//! 2000 points (< 50 ms in the page; native figure here). The eigen path
+//! (one shared shape) and the LU path (two shapes) are both timed.
+//! Invented geometry. Run: `cargo bench -p chiroptic --bench coupled`.
+
+use chiroptic::coupled::geometry::{couplet, helix, Handedness};
+use chiroptic::document::{Document, SystemDoc, TransitionDoc};
+use chiroptic::{evaluate, Model};
+use criterion::Criterion;
+use std::hint::black_box;
+use std::time::Duration;
+
+fn transition(center_nm: f64, direction: Option<[f64; 3]>) -> TransitionDoc {
+    TransitionDoc {
+        shape: "gaussian".into(),
+        center_nm,
+        fwhm_cm1: 2500.0,
+        lorentz_fwhm_cm1: None,
+        dipole_strength_debye2: 30.0,
+        rotatory_strength_1e40_cgs: 0.0,
+        direction,
+    }
+}
+
+fn model(system: SystemDoc) -> Model {
+    let text = r#"{"chiroptic": 1, "sample": {"concentration_mol_per_l": 1e-4, "path_length_cm": 1.0, "solvent": {"constant": 1.33}}}"#;
+    let mut doc = Document::from_json(text).expect("sample document");
+    doc.systems = vec![system];
+    Model::from_document(&doc).expect("benchmark model")
+}
+
+fn main() {
+    let mut c = Criterion::default().configure_from_args().sample_size(10).measurement_time(Duration::from_secs(3));
+    let nu: Vec<f64> = (0..2000).map(|i| 1e7 / (180.0 + 0.2 * i as f64)).collect();
+    let pair = model(couplet(7.0, 60.0, &transition(300.0, None)));
+    c.bench_function("coupled_2x1_onto_2000", |b| b.iter(|| black_box(evaluate(&pair, black_box(&nu)).ok())));
+    let mut pair_lu = couplet(7.0, 60.0, &transition(300.0, None));
+    pair_lu.chromophores[1].transitions[0].center_nm = 301.0;
+    let pair_lu = model(pair_lu);
+    c.bench_function("coupled_2x1_lu_onto_2000", |b| b.iter(|| black_box(evaluate(&pair_lu, black_box(&nu)).ok())));
+    let one = model(helix(20, 5.0, 3.4, 36.0, Handedness::Right, [0.3, 0.9, 0.3], &[transition(300.0, None)]));
+    c.bench_function("coupled_20x1_eigen_onto_2000", |b| b.iter(|| black_box(evaluate(&one, black_box(&nu)).ok())));
+    let two = model(helix(
+        20,
+        5.0,
+        3.4,
+        36.0,
+        Handedness::Right,
+        [0.3, 0.9, 0.3],
+        &[transition(300.0, None), transition(220.0, Some([0.0, 0.0, 1.0]))],
+    ));
+    c.bench_function("coupled_20x2_lu_onto_2000", |b| b.iter(|| black_box(evaluate(&two, black_box(&nu)).ok())));
+}

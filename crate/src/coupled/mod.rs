@@ -10,8 +10,10 @@
 //! between transitions of one chromophore), so the response is
 //! A = (diag(1/alpha) - G)^-1. With a_i = D_i s~_i (A in these units):
 //!
-//!     dn + i k   = ln10 c/(4 pi C_D) sum_ij A_ij e_i.e_j
-//!     Dn + i Dk  = ln10 c/(4 pi C_R) [ (pi nu/2) sum_ij A_ij (r_i - r_j).(e_i x e_j) + sum_i R_i s_i ]
+//! ```text
+//! dn + i k   = ln10 c/(4 pi C_D) sum_ij A_ij e_i.e_j
+//! Dn + i Dk  = ln10 c/(4 pi C_R) [ (pi nu/2) sum_ij A_ij (r_i - r_j).(e_i x e_j) + sum_i R_i s_i ]
+//! ```
 //!
 //! Coupling off, A = diag(a): the first line is the band model's mean part
 //! exactly, the geometric chiral term vanishes, and the intrinsic R_i enter

@@ -1,6 +1,8 @@
 //! Geometry as a plain table: one transition per line,
 //!
-//!     chromophore x_angstrom y_angstrom z_angstrom ex ey ez shape center_nm fwhm_cm1 dipole_debye2 [rotatory_1e40]
+//! ```text
+//! chromophore x_angstrom y_angstrom z_angstrom ex ey ez shape center_nm fwhm_cm1 dipole_debye2 [rotatory_1e40]
+//! ```
 //!
 //! separated by spaces, tabs or commas; `#` starts a comment; a first line
 //! starting with `chromophore` is the header. Rows of one name make one

@@ -47,9 +47,7 @@
 
 use std::fmt;
 
-/// The most points one file may decode to (all blocks together).
-/// The importers' one cap on points (1,000,000: far beyond any spectrum,
-/// and a few tens of MB at most while decoding).
+/// The most points one file may decode to, all blocks together (the cap is in `limits`).
 pub use crate::limits::MAX_POINTS;
 
 /// One data block of a JCAMP-DX file.

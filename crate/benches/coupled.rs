@@ -5,7 +5,7 @@
 //! Invented geometry. Run: `cargo bench -p chiroptic --bench coupled`.
 
 use chiroptic::coupled::geometry::{couplet, helix, Handedness};
-use chiroptic::document::{Document, SystemDoc, TransitionDoc};
+use chiroptic::document::{Direction, Document, SystemDoc, TransitionDoc};
 use chiroptic::{evaluate, Model};
 use criterion::Criterion;
 use std::hint::black_box;
@@ -19,7 +19,7 @@ fn transition(center_nm: f64, direction: Option<[f64; 3]>) -> TransitionDoc {
         lorentz_fwhm_cm1: None,
         dipole_strength_debye2: 30.0,
         rotatory_strength_1e40_cgs: 0.0,
-        direction,
+        direction: direction.map(Direction::Vector),
     }
 }
 

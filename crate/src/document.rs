@@ -60,9 +60,60 @@ pub struct ChromophoreDoc {
     pub name: String,
     /// Position, angstrom.
     pub position_angstrom: [f64; 3],
-    /// Transition direction (unit vector) of the chromophore's transitions.
-    pub direction: [f64; 3],
+    /// Transition direction of the chromophore's transitions.
+    pub direction: Direction,
     pub transitions: Vec<TransitionDoc>,
+}
+
+/// A transition direction as a unit vector `[x, y, z]` or as two angles
+/// `{"polar_deg": theta, "azimuth_deg": phi}` (theta from +z, phi from +x
+/// towards +y in the xy plane, the ISO 80000-2 spherical convention). The
+/// form the user wrote is kept when the document is saved.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(untagged)]
+pub enum Direction {
+    Vector([f64; 3]),
+    Angles(DirectionAngles),
+}
+
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct DirectionAngles {
+    pub polar_deg: f64,
+    pub azimuth_deg: f64,
+}
+
+impl Direction {
+    /// The direction as a vector (of length 1 when given as angles).
+    pub fn vector(self) -> [f64; 3] {
+        match self {
+            Direction::Vector(v) => v,
+            Direction::Angles(a) => {
+                let (st, ct) = a.polar_deg.to_radians().sin_cos();
+                let (sp, cp) = a.azimuth_deg.to_radians().sin_cos();
+                [st * cp, st * sp, ct]
+            }
+        }
+    }
+}
+
+impl<'de> Deserialize<'de> for Direction {
+    fn deserialize<D: serde::Deserializer<'de>>(d: D) -> std::result::Result<Direction, D::Error> {
+        #[derive(Deserialize)]
+        #[serde(untagged)]
+        enum Either {
+            Vector([f64; 3]),
+            Angles(DirectionAngles),
+        }
+        // serde's own message for an untagged miss names no form; say both.
+        match Either::deserialize(d) {
+            Ok(Either::Vector(v)) => Ok(Direction::Vector(v)),
+            Ok(Either::Angles(a)) => Ok(Direction::Angles(a)),
+            Err(_) => Err(serde::de::Error::custom(
+                "a direction is [x, y, z] (a unit vector) or {\"polar_deg\": θ, \"azimuth_deg\": φ} (degrees)",
+            )),
+        }
+    }
 }
 
 /// One transition of a chromophore: a band whose rotatory strength is its
@@ -80,7 +131,7 @@ pub struct TransitionDoc {
     #[serde(default, skip_serializing_if = "is_zero")]
     pub rotatory_strength_1e40_cgs: f64,
     #[serde(default, skip_serializing_if = "Option::is_none")]
-    pub direction: Option<[f64; 3]>,
+    pub direction: Option<Direction>,
 }
 
 fn is_zero(v: &f64) -> bool {

@@ -3,7 +3,7 @@
 
 use chiroptic::coupled::geometry::{couplet, helix, Handedness};
 use chiroptic::coupled::table;
-use chiroptic::document::{ChromophoreDoc, Document, SystemDoc, TransitionDoc};
+use chiroptic::document::{ChromophoreDoc, Direction, DirectionAngles, Document, SystemDoc, TransitionDoc};
 use chiroptic::model::Model;
 use chiroptic::spectra::{evaluate, Spectra};
 use chiroptic::units::{self, WAVENUMBER_PER_DEBYE2_PER_NM3};
@@ -149,7 +149,7 @@ fn exciton_chirality_rule() {
     let chromophore = |z: f64, d: [f64; 3]| ChromophoreDoc {
         name: String::new(),
         position_angstrom: [0.0, 0.0, z],
-        direction: d,
+        direction: Direction::Vector(d),
         transitions: vec![t.clone()],
     };
     let a = 40.0_f64.to_radians();
@@ -179,7 +179,8 @@ fn mirror(system: &SystemDoc) -> SystemDoc {
     let mut m = system.clone();
     for c in &mut m.chromophores {
         c.position_angstrom[0] = -c.position_angstrom[0];
-        c.direction[0] = -c.direction[0];
+        let d = c.direction.vector();
+        c.direction = Direction::Vector([-d[0], d[1], d[2]]);
     }
     m
 }
@@ -196,8 +197,13 @@ fn symmetry() {
         screened: false,
         uncoupled: false,
         chromophores: vec![
-            ChromophoreDoc { name: String::new(), position_angstrom: [0.0, 0.0, 0.0], direction: d1, transitions: vec![t.clone()] },
-            ChromophoreDoc { name: String::new(), position_angstrom: p2, direction: d2, transitions: vec![t.clone()] },
+            ChromophoreDoc {
+                name: String::new(),
+                position_angstrom: [0.0, 0.0, 0.0],
+                direction: Direction::Vector(d1),
+                transitions: vec![t.clone()],
+            },
+            ChromophoreDoc { name: String::new(), position_angstrom: p2, direction: Direction::Vector(d2), transitions: vec![t.clone()] },
         ],
     };
     let s45 = std::f64::consts::FRAC_1_SQRT_2;
@@ -287,7 +293,7 @@ fn eigen_and_lu_paths_agree() {
 fn table_and_validation() {
     let mut t2 = transition("gaussian", 3000.0);
     t2.center_nm = 220.0;
-    t2.direction = Some([0.0, 0.0, 1.0]);
+    t2.direction = Some(Direction::Vector([0.0, 0.0, 1.0]));
     let mut h = helix(3, 5.0, 3.4, 36.0, Handedness::Right, [0.3, 0.9, 0.3], &[transition("gaussian", 2500.0), t2]);
     h.name = "t".into();
     let text = table::write(&h);
@@ -303,8 +309,8 @@ fn table_and_validation() {
             Box::new(|s| s.chromophores[1].position_angstrom = s.chromophores[0].position_angstrom),
             "systems[0].chromophores[1].position_angstrom",
         ),
-        (Box::new(|s| s.chromophores[0].direction = [0.0, 0.0, 0.0]), "systems[0].chromophores[0].direction"),
-        (Box::new(|s| s.chromophores[0].direction = [1.0, 1.0, 0.0]), "systems[0].chromophores[0].direction"),
+        (Box::new(|s| s.chromophores[0].direction = Direction::Vector([0.0, 0.0, 0.0])), "systems[0].chromophores[0].direction"),
+        (Box::new(|s| s.chromophores[0].direction = Direction::Vector([1.0, 1.0, 0.0])), "systems[0].chromophores[0].direction"),
         (Box::new(|s| s.chromophores[0].position_angstrom[1] = f64::NAN), "systems[0].chromophores[0].position_angstrom[1]"),
         (Box::new(|s| s.chromophores[0].transitions[0].fwhm_cm1 = -1.0), "systems[0].chromophores[0].transitions[0].fwhm_cm1"),
         (
@@ -355,4 +361,34 @@ fn cli_geometry_verbs() {
     assert_eq!(message.trim().lines().count(), 1);
     assert!(message.contains("systems[0].chromophores[0].direction"), "{message}");
     std::fs::remove_dir_all(&dir).ok();
+}
+
+/// A direction given as two angles (ISO 80000-2: polar from +z, azimuth from
+/// +x towards +y) is the unit vector (sin t cos p, sin t sin p, cos t), gives
+/// the same spectra as that vector, and survives a save in the form written.
+#[test]
+fn direction_as_two_angles() {
+    let t = transition("gaussian", 2500.0);
+    let (polar, azimuth) = (90.0_f64, 50.0_f64);
+    let by_vector = couplet(7.0, 50.0, &t);
+    let mut by_angles = by_vector.clone();
+    by_angles.chromophores[1].direction = Direction::Angles(DirectionAngles { polar_deg: polar, azimuth_deg: azimuth });
+    let v = by_angles.chromophores[1].direction.vector();
+    let expect = [azimuth.to_radians().cos(), azimuth.to_radians().sin(), 0.0];
+    for c in 0..3 {
+        assert!((v[c] - expect[c]).abs() < 1e-15, "{v:?}");
+    }
+    let nu = grid(25_000.0, 42_000.0, 401);
+    let a = spectra(&document(vec![by_vector]), &nu);
+    let b = spectra(&document(vec![by_angles.clone()]), &nu);
+    for (x, y) in a.delta_epsilon.iter().zip(&b.delta_epsilon) {
+        assert!((x - y).abs() <= 1e-12 * max_abs(&a.delta_epsilon));
+    }
+    let doc = document(vec![by_angles]);
+    let text = doc.to_json();
+    assert!(text.contains("\"polar_deg\""), "{text}");
+    assert_eq!(Document::from_json(&text).unwrap(), doc);
+    let bad = text.replace("\"polar_deg\"", "\"polar\"");
+    let e = Document::from_json(&bad).unwrap_err().to_string();
+    assert!(e.contains("chromophores[1].direction") && e.contains("polar_deg"), "{e}");
 }

@@ -1,6 +1,6 @@
 //! Geometry helpers: the classic couplet and identical chromophores on a helix.
 
-use crate::document::{ChromophoreDoc, SystemDoc, TransitionDoc};
+use crate::document::{ChromophoreDoc, Direction, SystemDoc, TransitionDoc};
 
 /// Two chromophores `distance_angstrom` apart on the z axis, the one at
 /// -d/2 along x, the one at +d/2 turned by `twist_deg` about z. Seen from +z
@@ -11,7 +11,7 @@ pub fn couplet(distance_angstrom: f64, twist_deg: f64, transition: &TransitionDo
     let unit = |name: &str, z: f64, d: [f64; 3]| ChromophoreDoc {
         name: name.into(),
         position_angstrom: [0.0, 0.0, z],
-        direction: d,
+        direction: Direction::Vector(d),
         transitions: vec![TransitionDoc { direction: None, ..transition.clone() }],
     };
     SystemDoc {
@@ -57,7 +57,7 @@ pub fn helix(
             ChromophoreDoc {
                 name: format!("U{}", k + 1),
                 position_angstrom: [radius_angstrom * c, radius_angstrom * s, k as f64 * rise_angstrom],
-                direction: dir,
+                direction: Direction::Vector(dir),
                 transitions: transitions.to_vec(),
             }
         })

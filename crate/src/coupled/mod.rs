@@ -33,7 +33,7 @@ pub mod geometry;
 pub mod solve;
 pub mod table;
 
-use crate::document::{BandDoc, SystemDoc};
+use crate::document::{BandDoc, Direction, SystemDoc};
 use crate::error::{Error, ErrorKind, Result};
 use crate::limits::{MAX_CHROMOPHORES, MAX_SYSTEMS, MAX_SYSTEM_TRANSITIONS, MAX_TRANSITIONS_PER_CHROMOPHORE};
 use crate::lineshape::Lineshape;
@@ -79,10 +79,19 @@ fn sub(a: [f64; 3], b: [f64; 3]) -> [f64; 3] {
     [a[0] - b[0], a[1] - b[1], a[2] - b[2]]
 }
 
-fn unit_direction(field: &str, d: [f64; 3]) -> Result<[f64; 3]> {
-    for (c, v) in d.iter().enumerate() {
-        crate::error::finite(&format!("{field}[{c}]"), *v)?;
+fn unit_direction(field: &str, d: Direction) -> Result<[f64; 3]> {
+    match d {
+        Direction::Vector(v) => {
+            for (c, x) in v.iter().enumerate() {
+                crate::error::finite(&format!("{field}[{c}]"), *x)?;
+            }
+        }
+        Direction::Angles(a) => {
+            crate::error::finite(&format!("{field}.polar_deg"), a.polar_deg)?;
+            crate::error::finite(&format!("{field}.azimuth_deg"), a.azimuth_deg)?;
+        }
     }
+    let d = d.vector();
     let len = dot(d, d).sqrt();
     if (len - 1.0).abs() > DIRECTION_TOLERANCE {
         return Err(Error::new(ErrorKind::OutOfRange, field, format!("a direction must be a unit vector (its length is {len})")));

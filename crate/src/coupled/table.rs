@@ -9,7 +9,7 @@
 //! chromophore (at one position); a row whose direction differs from its
 //! chromophore's first row keeps it as the transition's own.
 
-use crate::document::{ChromophoreDoc, SystemDoc, TransitionDoc};
+use crate::document::{ChromophoreDoc, Direction, SystemDoc, TransitionDoc};
 use crate::error::{Error, ErrorKind, Result};
 use crate::table::number;
 
@@ -50,13 +50,13 @@ pub fn parse(text: &str, name: &str) -> Result<SystemDoc> {
                 if c.position_angstrom != position {
                     return Err(Error::new(ErrorKind::OutOfRange, at, format!("chromophore \"{}\" appears at two positions", f[0])));
                 }
-                let direction = if direction == c.direction { None } else { Some(direction) };
+                let direction = if Direction::Vector(direction) == c.direction { None } else { Some(Direction::Vector(direction)) };
                 c.transitions.push(TransitionDoc { direction, ..transition });
             }
             None => chromophores.push(ChromophoreDoc {
                 name: f[0].to_string(),
                 position_angstrom: position,
-                direction,
+                direction: Direction::Vector(direction),
                 transitions: vec![transition],
             }),
         }
@@ -74,7 +74,7 @@ pub fn write(system: &SystemDoc) -> String {
         let name =
             if c.name.trim().is_empty() { format!("C{}", j + 1) } else { c.name.replace(|ch: char| ch.is_whitespace() || ch == ',', "_") };
         for t in &c.transitions {
-            let d = t.direction.unwrap_or(c.direction);
+            let d = t.direction.unwrap_or(c.direction).vector();
             let p = c.position_angstrom;
             let cells = [p[0], p[1], p[2], d[0], d[1], d[2]].map(number).join(" ");
             out.push_str(&format!(

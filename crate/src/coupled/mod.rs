@@ -212,6 +212,11 @@ impl System {
     /// `spectra::mean_scale`; the chiral part is in units of R, the mean in
     /// units of D). `n_solvent` is used when the coupling is screened.
     pub fn response(&self, nu: &[f64], n_solvent: &[f64]) -> Result<(Vec<Complex64>, Vec<Complex64>)> {
+        self.response_with(nu, n_solvent, Solver::Auto)
+    }
+
+    /// [`System::response`] by a chosen method (the tests compare them).
+    pub fn response_with(&self, nu: &[f64], n_solvent: &[f64], solver: Solver) -> Result<(Vec<Complex64>, Vec<Complex64>)> {
         let n = self.transitions.len();
         let points = nu.len();
         let ln_nu = crate::lineshape::ln_grid(nu);
@@ -221,38 +226,60 @@ impl System {
         let centroid = centroid.map(|v| v / n.max(1) as f64);
         let mut chiral = vec![Complex64::new(0.0, 0.0); points];
         let mut mean = vec![Complex64::new(0.0, 0.0); points];
-        // a_i = D_i s~_i on the grid; intrinsic R_i s_i straight into the chiral part.
-        let mut a = Vec::with_capacity(n);
+        // Each distinct shape once on the grid: s for the intrinsic R_i, and
+        // sigma = (Re s~, Im s) for the polarisability a_i = D_i sigma_i.
+        let mut shapes: Vec<(Lineshape, Vec<Complex64>, Vec<Complex64>)> = Vec::new();
+        let mut shape_of = Vec::with_capacity(n);
         for t in &self.transitions {
-            let (s, mean_re) = t.lineshape.values_with_mean(nu, &ln_nu);
+            let k = match shapes.iter().position(|(l, _, _)| *l == t.lineshape) {
+                Some(k) => k,
+                None => {
+                    let (s, mean_re) = t.lineshape.values_with_mean(nu, &ln_nu);
+                    let sigma = s.iter().zip(&mean_re).map(|(s, m)| Complex64::new(*m, s.im)).collect();
+                    shapes.push((t.lineshape, s, sigma));
+                    shapes.len() - 1
+                }
+            };
+            shape_of.push(k);
             if t.rotatory_strength_esu2_cm2 != 0.0 {
-                for (c, s) in chiral.iter_mut().zip(&s) {
+                for (c, s) in chiral.iter_mut().zip(&shapes[k].1) {
                     *c += t.rotatory_strength_esu2_cm2 * s;
                 }
             }
-            a.push(s.iter().zip(&mean_re).map(|(s, m)| t.dipole_strength_esu2_cm2 * Complex64::new(*m, s.im)).collect::<Vec<_>>());
         }
+        // A transition with D = 0 has a_i = 0: it neither responds nor couples.
+        let active: Vec<usize> = (0..n).filter(|&i| self.transitions[i].dipole_strength_esu2_cm2 > 0.0).collect();
+        if active.is_empty() {
+            return Ok((chiral, mean));
+        }
+        let sigma = |i: usize, point: usize| shapes[shape_of[i]].2[point];
         let p: Vec<[f64; 3]> = self.transitions.iter().map(|t| t.direction).collect();
         let q: Vec<[f64; 3]> = self.transitions.iter().map(|t| cross(sub(t.position_cm, centroid), t.direction)).collect();
         let g = self.interaction();
         let screen = |i: usize| if self.screened { 1.0 / (n_solvent[i] * n_solvent[i]) } else { 1.0 };
         let lambda = POLARISABILITY_PER_DIPOLE_SHAPE;
-        if let Some(shared) = solve::SharedShape::new(&self.transitions, &g, lambda, &p, &q) {
-            for i in 0..points {
-                let (m, c) = shared.at(a[0][i] / self.transitions[0].dipole_strength_esu2_cm2, lambda * screen(i));
-                mean[i] += m;
-                chiral[i] += PI * nu[i] * c;
-            }
-            return Ok((chiral, mean));
-        }
-        let mut lu = solve::Lu::new(n);
-        let mut x = vec![Complex64::new(0.0, 0.0); n];
+        let mut structured = match solver {
+            Solver::Auto | Solver::Structured => solve::Partitioned::new(&self.transitions, &g, &active, &p, &q),
+            Solver::Lu => None,
+        };
+        let na = active.len();
+        let mut lu = solve::Lu::new(na);
+        let mut x = vec![Complex64::new(0.0, 0.0); na];
         for i in 0..points {
             let f = lambda * screen(i);
-            // (I - f diag(a) G) X = diag(a) p_c: no division by a (D may be 0).
+            if let Some((m, c)) = structured.as_mut().and_then(|s| s.at(|t| sigma(t, i), f)) {
+                mean[i] += m;
+                chiral[i] += PI * nu[i] * c;
+                continue;
+            }
+            if solver == Solver::Structured {
+                return Err(Error::new(ErrorKind::OutOfRange, "systems", format!("the structured solve fails at {} cm⁻¹", nu[i])));
+            }
+            // (I - f diag(a) G) X = diag(a) p_c: no division by a.
+            let a: Vec<Complex64> = active.iter().map(|&t| self.transitions[t].dipole_strength_esu2_cm2 * sigma(t, i)).collect();
             lu.factor(|r, c| {
                 let delta = if r == c { 1.0 } else { 0.0 };
-                Complex64::new(delta, 0.0) - f * a[r][i] * g[r * n + c]
+                Complex64::new(delta, 0.0) - f * a[r] * g[active[r] * n + active[c]]
             })
             .map_err(|_| {
                 Error::new(
@@ -266,15 +293,27 @@ impl System {
             })?;
             for comp in 0..3 {
                 for (r, xr) in x.iter_mut().enumerate() {
-                    *xr = a[r][i] * p[r][comp];
+                    *xr = a[r] * p[active[r]][comp];
                 }
                 lu.solve(&mut x);
-                for r in 0..n {
-                    mean[i] += p[r][comp] * x[r];
-                    chiral[i] += PI * nu[i] * q[r][comp] * x[r];
+                for (r, xr) in x.iter().enumerate() {
+                    mean[i] += p[active[r]][comp] * xr;
+                    chiral[i] += PI * nu[i] * q[active[r]][comp] * xr;
                 }
             }
         }
         Ok((chiral, mean))
     }
+}
+
+/// How the coupled response is solved at each point.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Solver {
+    /// The largest group of one shape diagonalised once, the rest by a Schur
+    /// complement per point (`solve::Partitioned`); a full LU where that fails.
+    Auto,
+    /// The structured solve alone (an error where it fails; for the tests).
+    Structured,
+    /// A full complex LU with partial pivoting at every point.
+    Lu,
 }

@@ -138,49 +138,155 @@ pub fn symmetric_eigen(matrix: &[f64], n: usize) -> (Vec<f64>, Vec<f64>) {
     ((0..n).map(|i| a[i * n + i]).collect(), v)
 }
 
-/// When every transition has the same shape (centre and width), a_i = D_i
-/// sigma(nu) and A = D^1/2 U diag(sigma/(1 - f sigma L_k)) U^T D^1/2 with
-/// D^1/2 G D^1/2 = U L U^T, decomposed once: O(N) per point.
-pub struct SharedShape {
+/// The structured solve. The transitions (those with D > 0; the others take
+/// no part in the coupling) fall into groups of one shape each, so per point
+/// H = diag(1/sigma_i) - f B with B = D^1/2 G D^1/2. The largest group's block
+/// is diagonal in the eigenbasis of its B block, decomposed once:
+/// H00 = U (1/sigma_0 - f L) U^T. Eliminating it leaves the Schur complement
+/// S = H_JJ - f^2 C^T diag(z) C of the other m transitions (C = U^T B_0J,
+/// z_k = 1/(1/sigma_0 - f L_k)), factored per point: O(n0 m^2 + m^3) in place
+/// of the O(n^3) of a full LU, and O(n) when every transition shares the shape.
+pub struct Partitioned {
+    /// A transition of the diagonalised group (its shape is the group's).
+    lead: usize,
+    /// The other transitions, as indices into the system's list.
+    rest: Vec<usize>,
     eigenvalues: Vec<f64>,
-    /// Per mode: sum_c (U^T D^1/2 p_c)_k^2 and sum_c (U^T D^1/2 q_c)_k (U^T D^1/2 p_c)_k.
-    mean_weight: Vec<f64>,
-    chiral_weight: Vec<f64>,
+    /// C, n0 x m row-major.
+    c: Vec<f64>,
+    /// C_ka C_kb for a <= b (packed by pair, then k): the Schur products.
+    pairs: Vec<f64>,
+    /// B on the rest, m x m.
+    b_rest: Vec<f64>,
+    /// U^T D^1/2 p_c and U^T D^1/2 q_c on the group, D^1/2 p_c and D^1/2 q_c on the rest.
+    p0: [Vec<f64>; 3],
+    q0: [Vec<f64>; 3],
+    pr: [Vec<f64>; 3],
+    qr: [Vec<f64>; 3],
+    lu: Lu,
+    schur: Vec<Complex64>,
+    z: Vec<Complex64>,
+    y: Vec<Complex64>,
 }
 
-impl SharedShape {
-    pub fn new(t: &[Transition], g: &[f64], _lambda: f64, p: &[[f64; 3]], q: &[[f64; 3]]) -> Option<SharedShape> {
-        let first = t.first()?;
-        if t.iter().any(|x| x.lineshape != first.lineshape || x.dipole_strength_esu2_cm2 <= 0.0) {
-            return None;
-        }
+impl Partitioned {
+    /// `active` lists the transitions with D > 0; `g` is the full n x n
+    /// interaction; `p` and `q` are e_i and (r_i - centroid) x e_i.
+    pub fn new(t: &[Transition], g: &[f64], active: &[usize], p: &[[f64; 3]], q: &[[f64; 3]]) -> Option<Partitioned> {
         let n = t.len();
-        let root: Vec<f64> = t.iter().map(|x| x.dipole_strength_esu2_cm2.sqrt()).collect();
-        let b: Vec<f64> = (0..n * n).map(|ij| root[ij / n] * g[ij] * root[ij % n]).collect();
-        let (eigenvalues, u) = symmetric_eigen(&b, n);
-        let project = |w: &[[f64; 3]], k: usize, c: usize| (0..n).map(|i| u[i * n + k] * root[i] * w[i][c]).sum::<f64>();
-        let mut mean_weight = vec![0.0; n];
-        let mut chiral_weight = vec![0.0; n];
-        for k in 0..n {
-            for c in 0..3 {
-                let pk = project(p, k, c);
-                mean_weight[k] += pk * pk;
-                chiral_weight[k] += project(q, k, c) * pk;
+        // The largest group of one shape (the first such on a tie).
+        let mut best: Vec<usize> = Vec::new();
+        for &i in active {
+            let group: Vec<usize> = active.iter().copied().filter(|&j| t[j].lineshape == t[i].lineshape).collect();
+            if group.len() > best.len() {
+                best = group;
             }
         }
-        Some(SharedShape { eigenvalues, mean_weight, chiral_weight })
+        let lead = *best.first()?;
+        let rest: Vec<usize> = active.iter().copied().filter(|i| !best.contains(i)).collect();
+        let (n0, m) = (best.len(), rest.len());
+        let root = |i: usize| t[i].dipole_strength_esu2_cm2.sqrt();
+        let b = |i: usize, j: usize| root(i) * g[i * n + j] * root(j);
+        let b00: Vec<f64> = (0..n0 * n0).map(|ij| b(best[ij / n0], best[ij % n0])).collect();
+        let (eigenvalues, u) = symmetric_eigen(&b00, n0);
+        let mut c = vec![0.0; n0 * m];
+        for k in 0..n0 {
+            for a in 0..m {
+                c[k * m + a] = (0..n0).map(|i| u[i * n0 + k] * b(best[i], rest[a])).sum();
+            }
+        }
+        let mut pairs = Vec::with_capacity(n0 * m * (m + 1) / 2);
+        for a in 0..m {
+            for bb in a..m {
+                pairs.extend((0..n0).map(|k| c[k * m + a] * c[k * m + bb]));
+            }
+        }
+        let b_rest = (0..m * m).map(|ab| b(rest[ab / m], rest[ab % m])).collect();
+        let on_group = |w: &[[f64; 3]], comp: usize| -> Vec<f64> {
+            (0..n0).map(|k| (0..n0).map(|i| u[i * n0 + k] * root(best[i]) * w[best[i]][comp]).sum()).collect()
+        };
+        let on_rest = |w: &[[f64; 3]], comp: usize| -> Vec<f64> { rest.iter().map(|&i| root(i) * w[i][comp]).collect() };
+        Some(Partitioned {
+            lead,
+            eigenvalues,
+            c,
+            pairs,
+            b_rest,
+            p0: [0, 1, 2].map(|comp| on_group(p, comp)),
+            q0: [0, 1, 2].map(|comp| on_group(q, comp)),
+            pr: [0, 1, 2].map(|comp| on_rest(p, comp)),
+            qr: [0, 1, 2].map(|comp| on_rest(q, comp)),
+            lu: Lu::new(m),
+            schur: vec![Complex64::new(0.0, 0.0); m * m],
+            z: vec![Complex64::new(0.0, 0.0); n0],
+            y: vec![Complex64::new(0.0, 0.0); m],
+            rest,
+        })
     }
 
-    /// (sum_ij A_ij e_i.e_j, sum_c q_c.A p_c) at a point of shape `sigma`
-    /// with coupling factor `f` (pi/hc, over n^2 when screened).
-    pub fn at(&self, sigma: Complex64, f: f64) -> (Complex64, Complex64) {
-        let mut mean = Complex64::new(0.0, 0.0);
-        let mut chiral = Complex64::new(0.0, 0.0);
-        for k in 0..self.eigenvalues.len() {
-            let w = sigma / (1.0 - f * self.eigenvalues[k] * sigma);
-            mean += w * self.mean_weight[k];
-            chiral += w * self.chiral_weight[k];
+    /// (sum_c P_c^T H^-1 P_c, sum_c Q_c^T H^-1 P_c) at a point where
+    /// transition i has shape `sigma(i)`, with coupling factor `f` (pi/hc,
+    /// over n^2 when screened). None where a shape or pivot vanishes (the
+    /// caller then takes the full LU, which needs no division by a shape).
+    pub fn at(&mut self, sigma: impl Fn(usize) -> Complex64, f: f64) -> Option<(Complex64, Complex64)> {
+        let zero = Complex64::new(0.0, 0.0);
+        let (n0, m) = (self.eigenvalues.len(), self.rest.len());
+        let inv0 = reciprocal(sigma(self.lead))?;
+        for k in 0..n0 {
+            self.z[k] = reciprocal(inv0 - f * self.eigenvalues[k])?;
         }
-        (mean, chiral)
+        let f2 = f * f;
+        let mut pair = 0;
+        for a in 0..m {
+            let inv_a = reciprocal(sigma(self.rest[a]))?;
+            for b in a..m {
+                let w = &self.pairs[pair * n0..(pair + 1) * n0];
+                pair += 1;
+                let (mut re, mut im) = (0.0, 0.0);
+                for (w, z) in w.iter().zip(&self.z) {
+                    re += w * z.re;
+                    im += w * z.im;
+                }
+                let mut v = Complex64::new(-f * self.b_rest[a * m + b] - f2 * re, -f2 * im);
+                if a == b {
+                    v += inv_a;
+                }
+                self.schur[a * m + b] = v;
+                self.schur[b * m + a] = v;
+            }
+        }
+        let schur = &self.schur;
+        self.lu.factor(|r, c| schur[r * m + c]).ok()?;
+        let (mut mean, mut chiral) = (zero, zero);
+        for comp in 0..3 {
+            let (p0, q0, pr, qr) = (&self.p0[comp], &self.q0[comp], &self.pr[comp], &self.qr[comp]);
+            for a in 0..m {
+                let mut s = zero;
+                for k in 0..n0 {
+                    s += self.c[k * m + a] * (self.z[k] * p0[k]);
+                }
+                self.y[a] = pr[a] + f * s;
+            }
+            self.lu.solve(&mut self.y);
+            for k in 0..n0 {
+                let mut s = zero;
+                for a in 0..m {
+                    s += self.c[k * m + a] * self.y[a];
+                }
+                let y0 = self.z[k] * (p0[k] + f * s);
+                mean += p0[k] * y0;
+                chiral += q0[k] * y0;
+            }
+            for a in 0..m {
+                mean += pr[a] * self.y[a];
+                chiral += qr[a] * self.y[a];
+            }
+        }
+        Some((mean, chiral))
     }
+}
+
+fn reciprocal(x: Complex64) -> Option<Complex64> {
+    let r = 1.0 / x;
+    (r.re.is_finite() && r.im.is_finite()).then_some(r)
 }

@@ -233,11 +233,13 @@ struct GridArgs {
 /// The flags of `fit`.
 #[derive(clap::Args)]
 struct FitArgs {
-    /// Band fields free in the fit, comma-separated (centre, width, lorentz, R, D);
-    /// default centre,width,R.
+    /// Fields free in the fit, comma-separated: band fields (centre, width,
+    /// lorentz, R, D; default centre,width,R) and, for a coupled system of two
+    /// chromophores, its distance and twist (fixed unless named).
     #[arg(long)]
     free: Option<String>,
-    /// Hold a parameter at its start value: BAND.FIELD (e.g. "B1.center_nm"); repeatable.
+    /// Hold a parameter at its start value: BAND.FIELD (e.g. "B1.center_nm") or
+    /// SYSTEM.distance / SYSTEM.twist; repeatable.
     #[arg(long)]
     fix: Vec<String>,
     /// Local fits from this many starts (the given one and perturbed ones); default 8.

@@ -184,7 +184,7 @@ pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
     })
 }
 
-fn solvent_index(model: &Model, wavenumber_cm1: &[f64]) -> Result<Vec<f64>> {
+pub(crate) fn solvent_index(model: &Model, wavenumber_cm1: &[f64]) -> Result<Vec<f64>> {
     if let Some(range) = model.sample.solvent.valid_range() {
         let outside = wavenumber_cm1.iter().map(|nu| AxisUnit::Nanometre.from_wavenumber(*nu)).find(|nm| !range.contains_nm(*nm));
         if let Some(nm) = outside {

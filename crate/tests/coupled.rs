@@ -383,6 +383,28 @@ fn cli_geometry_verbs() {
     assert_eq!(bad.status.code(), Some(2));
     assert_eq!(message.trim().lines().count(), 1);
     assert!(message.contains("systems[0].chromophores[0].direction"), "{message}");
+    // fit: the couplet's twist from its own CD, started 10° off.
+    let truth = Document::from_json(&std::fs::read_to_string(&doc_path).unwrap()).unwrap();
+    let x: Vec<f64> = (0..=100).map(|i| 250.0 + i as f64).collect();
+    let de = spectra(&truth, &x.iter().map(|l| 1e7 / l).collect::<Vec<_>>()).delta_epsilon;
+    let csv: String = x.iter().zip(&de).map(|(l, y)| format!("{l},{y}\n")).collect();
+    let data_path = dir.join("cd.csv");
+    std::fs::write(&data_path, format!("wavelength_nm,delta_epsilon_M-1_cm-1\n{csv}")).unwrap();
+    let mut start = truth.clone();
+    chiroptic::coupled::geometry::set_distance_and_twist(&mut start.systems[0], 7.0, Some(55.0));
+    let start_path = dir.join("start.json");
+    std::fs::write(&start_path, start.to_json()).unwrap();
+    let fitted_path = dir.join("fitted.json");
+    let fit = std::process::Command::new(bin)
+        .args(["fit", start_path.to_str().unwrap(), data_path.to_str().unwrap(), "--free", "twist", "-o", fitted_path.to_str().unwrap()])
+        .output()
+        .unwrap();
+    let report = String::from_utf8_lossy(&fit.stderr);
+    assert!(fit.status.success(), "{report}");
+    assert!(report.contains("twist_deg"), "{report}");
+    let fitted = Document::from_json(&std::fs::read_to_string(&fitted_path).unwrap()).unwrap();
+    let (_, twist) = chiroptic::coupled::geometry::distance_and_twist(&fitted.systems[0]).unwrap();
+    assert!((twist.unwrap() - 45.0).abs() < 1e-3, "{twist:?}");
     std::fs::remove_dir_all(&dir).ok();
 }
 

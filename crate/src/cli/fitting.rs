@@ -7,7 +7,7 @@ use super::{load, Failure};
 use crate::data::{data_set_doc, data_sets};
 use crate::document::{FitParameterDoc, FitReportDoc, SourceDoc};
 use crate::error::{Error, ErrorKind};
-use crate::fit::{self, Field};
+use crate::fit::{self, Field, GeometryField};
 use crate::import::ColumnChoice;
 use crate::model::Model;
 use crate::units::AxisUnit;
@@ -49,8 +49,8 @@ pub fn run(start: &Path, flags: &ColumnFlags, o: &FitOptions, report_out: &mut S
     if let Some(free) = &o.free {
         settings.free = free.split(',').map(|s| s.trim().to_string()).filter(|s| !s.is_empty()).collect();
         for f in &settings.free {
-            if Field::parse(f).is_none() {
-                return Err(bad("--free", ErrorKind::UnknownName, format!("unknown field \"{f}\" (use centre, width, lorentz, R, D)")));
+            if Field::parse(f).is_none() && GeometryField::parse(f).is_none() {
+                return Err(bad("--free", ErrorKind::UnknownName, format!("unknown field \"{f}\" (use {})", fit::FREE_NAMES)));
             }
         }
     }

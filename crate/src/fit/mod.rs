@@ -65,6 +65,58 @@ impl Field {
     }
 }
 
+/// The geometry of a two-chromophore coupled system that a fit can set
+/// (see `coupled::geometry::distance_and_twist`). Held fixed unless named.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum GeometryField {
+    Distance,
+    Twist,
+}
+
+impl GeometryField {
+    pub const ALL: [GeometryField; 2] = [GeometryField::Distance, GeometryField::Twist];
+
+    pub fn key(self) -> &'static str {
+        match self {
+            GeometryField::Distance => "distance_angstrom",
+            GeometryField::Twist => "twist_deg",
+        }
+    }
+
+    /// Accepts the key or a short name (distance, twist).
+    pub fn parse(s: &str) -> Option<GeometryField> {
+        match s {
+            "distance" | "distance_angstrom" => Some(GeometryField::Distance),
+            "twist" | "twist_deg" => Some(GeometryField::Twist),
+            _ => None,
+        }
+    }
+
+    fn target(self, system: usize) -> Target {
+        match self {
+            GeometryField::Distance => Target::Distance(system),
+            GeometryField::Twist => Target::Twist(system),
+        }
+    }
+}
+
+/// The names `fit.free` and `--free` accept, for messages.
+pub const FREE_NAMES: &str = "centre, width, lorentz, R, D, distance, twist";
+
+/// The name of system `i` in parameter names: its own, else `systems[i]`.
+fn system_label(doc: &Document, i: usize) -> String {
+    match doc.systems.get(i).map(|s| s.name.as_str()) {
+        Some(name) if !name.is_empty() => name.to_string(),
+        _ => format!("systems[{i}]"),
+    }
+}
+
+/// What "NAME.FIELD" names: a band field or a system's geometry.
+enum Named {
+    Band(usize, Field),
+    Geometry(usize, GeometryField),
+}
+
 /// The default free fields: centres, widths and rotatory strengths.
 pub const DEFAULT_FREE: [Field; 3] = [Field::Center, Field::Width, Field::Rotatory];
 pub const DEFAULT_STARTS: u32 = 8;
@@ -89,18 +141,40 @@ fn band_index(doc: &Document, name: &str) -> Option<usize> {
 
 /// "BAND.field" -> (band, field).
 fn parse_parameter(doc: &Document, text: &str, at: &str) -> Result<(usize, Field)> {
-    let (band, field) = text.rsplit_once('.').ok_or_else(|| {
+    match parse_named(doc, text, at)? {
+        Named::Band(b, f) => Ok((b, f)),
+        Named::Geometry(..) => Err(Error::new(ErrorKind::OutOfRange, at, format!("\"{text}\" is a system's geometry, not a band field"))),
+    }
+}
+
+/// "BAND.field" or "SYSTEM.distance" / "SYSTEM.twist".
+fn parse_named(doc: &Document, text: &str, at: &str) -> Result<Named> {
+    let (name, field) = text.rsplit_once('.').ok_or_else(|| {
         Error::new(
             ErrorKind::Syntax,
             at,
             format!("\"{text}\" should be BAND.FIELD, e.g. \"{}.center_nm\"", doc.bands.first().map(|b| b.name.as_str()).unwrap_or("B1")),
         )
     })?;
-    let b = band_index(doc, band).ok_or_else(|| Error::new(ErrorKind::UnknownName, at, format!("no band named \"{band}\"")))?;
+    if let Some(g) = GeometryField::parse(field) {
+        let s = (0..doc.systems.len())
+            .find(|&i| system_label(doc, i) == name)
+            .ok_or_else(|| Error::new(ErrorKind::UnknownName, at, format!("no coupled system named \"{name}\"")))?;
+        return Ok(Named::Geometry(s, g));
+    }
+    let b = band_index(doc, name).ok_or_else(|| Error::new(ErrorKind::UnknownName, at, format!("no band named \"{name}\"")))?;
     let f = Field::parse(field).ok_or_else(|| {
-        Error::new(ErrorKind::UnknownName, at, format!("unknown field \"{field}\" (use {})", Field::ALL.map(|f| f.key()).join(", ")))
+        Error::new(
+            ErrorKind::UnknownName,
+            at,
+            format!(
+                "unknown field \"{field}\" (use {}, or {} for a system)",
+                Field::ALL.map(|f| f.key()).join(", "),
+                GeometryField::ALL.map(|f| f.key()).join(", ")
+            ),
+        )
     })?;
-    Ok((b, f))
+    Ok(Named::Band(b, f))
 }
 
 /// A band field's start value in the fit's units (centre in cm^-1).
@@ -126,6 +200,8 @@ fn parameter_name(doc: &Document, t: Target, sets: &[DataSet]) -> String {
         Target::Shift => "shift_cm1".into(),
         Target::Offset(s) => format!("{}.offset", sets.get(s).map(|d| d.name.as_str()).unwrap_or("readings")),
         Target::Scale(s) => format!("{}.scale", sets.get(s).map(|d| d.name.as_str()).unwrap_or("readings")),
+        Target::Distance(s) => format!("{}.{}", system_label(doc, s), GeometryField::Distance.key()),
+        Target::Twist(s) => format!("{}.{}", system_label(doc, s), GeometryField::Twist.key()),
     }
 }
 
@@ -141,19 +217,24 @@ pub fn scatter_sigma(y: &[f64]) -> f64 {
 
 /// Builds the parameters of a fit from the document's settings.
 fn parameters(doc: &Document, model: &Model, settings: &FitDoc, sets: &[DataSet], warnings: &mut Vec<String>) -> Result<Vec<Parameter>> {
-    let free: Vec<Field> = if settings.free.is_empty() {
-        DEFAULT_FREE.to_vec()
-    } else {
-        settings
-            .free
-            .iter()
-            .enumerate()
-            .map(|(i, f)| {
-                Field::parse(f)
-                    .ok_or_else(|| Error::new(ErrorKind::UnknownName, format!("fit.free[{i}]"), format!("unknown field \"{f}\"")))
-            })
-            .collect::<Result<_>>()?
-    };
+    let mut free: Vec<Field> = Vec::new();
+    let mut free_geometry: Vec<GeometryField> = Vec::new();
+    for (i, f) in settings.free.iter().enumerate() {
+        match (Field::parse(f), GeometryField::parse(f)) {
+            (Some(field), _) => free.push(field),
+            (None, Some(g)) => free_geometry.push(g),
+            _ => {
+                return Err(Error::new(
+                    ErrorKind::UnknownName,
+                    format!("fit.free[{i}]"),
+                    format!("unknown field \"{f}\" (use {FREE_NAMES})"),
+                ))
+            }
+        }
+    }
+    if free.is_empty() {
+        free = DEFAULT_FREE.to_vec();
+    }
     let has_absorption = sets.iter().any(|s| matches!(s.measured, Measured::Absorption(_)));
     let mut out = Vec::new();
     for (b, band) in doc.bands.iter().enumerate() {
@@ -174,14 +255,66 @@ fn parameters(doc: &Document, model: &Model, settings: &FitDoc, sets: &[DataSet]
             out.push(Parameter { target: field.target(b), name: format!("{}.{}", band.name, field.key()), start, mode });
         }
     }
+    // Two-chromophore systems: distance and twist, fixed unless named.
+    for (s, system) in doc.systems.iter().enumerate() {
+        let Some((distance, twist)) = crate::coupled::geometry::distance_and_twist(system) else { continue };
+        let free_mode = |g: GeometryField| match (free_geometry.contains(&g), g) {
+            (false, _) => Mode::Fixed,
+            (true, GeometryField::Distance) => Mode::Free { min: Some(crate::coupled::MIN_SEPARATION_ANGSTROM), max: None },
+            (true, GeometryField::Twist) => Mode::Free { min: None, max: None },
+        };
+        let name = |g: GeometryField| format!("{}.{}", system_label(doc, s), g.key());
+        out.push(Parameter {
+            target: Target::Distance(s),
+            name: name(GeometryField::Distance),
+            start: distance,
+            mode: free_mode(GeometryField::Distance),
+        });
+        if let Some(t) = twist {
+            out.push(Parameter {
+                target: Target::Twist(s),
+                name: name(GeometryField::Twist),
+                start: t,
+                mode: free_mode(GeometryField::Twist),
+            });
+        }
+    }
+    for g in &free_geometry {
+        if !out.iter().any(|p| p.target == g.target(p_system(p.target)) && matches!(p.mode, Mode::Free { .. })) {
+            return Err(Error::new(
+                ErrorKind::OutOfRange,
+                "fit.free",
+                format!(
+                    "{} is free, but no coupled system has one: it needs a system of two chromophores{}",
+                    g.key(),
+                    if *g == GeometryField::Twist { " whose directions do not lie along the axis between them" } else { "" }
+                ),
+            ));
+        }
+    }
     // The document's own choices per parameter.
     for (i, p) in settings.parameters.iter().enumerate() {
         let at = format!("fit.parameters[{i}]");
-        let (b, field) = parse_parameter(doc, &p.parameter, &format!("{at}.parameter"))?;
-        let k = out.iter().position(|q| q.target == field.target(b)).ok_or_else(|| {
-            Error::new(ErrorKind::OutOfRange, format!("{at}.parameter"), format!("{} has no {}", doc.bands[b].name, field.key()))
+        let (target, mode) = match parse_named(doc, &p.parameter, &format!("{at}.parameter"))? {
+            Named::Band(b, field) => (field.target(b), parameter_mode(doc, model, p, field, &at)?),
+            Named::Geometry(s, g) => (g.target(s), geometry_mode(p, g, &at)?),
+        };
+        let k = out.iter().position(|q| q.target == target).ok_or_else(|| {
+            Error::new(
+                ErrorKind::OutOfRange,
+                format!("{at}.parameter"),
+                format!(
+                    "{} is not a parameter of this document ({})",
+                    p.parameter,
+                    match target {
+                        Target::Distance(_) | Target::Twist(_) =>
+                            "distance and twist belong to a system of two chromophores; a twist needs directions off the axis between them",
+                        _ => "that band has no such field",
+                    }
+                ),
+            )
         })?;
-        out[k].mode = parameter_mode(doc, model, p, field, &at)?;
+        out[k].mode = mode;
     }
     if !has_absorption && !doc.bands.is_empty() {
         for p in out.iter_mut().filter(|p| matches!(p.target, Target::Dipole(_))) {
@@ -267,17 +400,36 @@ fn parameter_mode(doc: &Document, model: &Model, p: &FitParameterDoc, field: Fie
     Ok(Mode::Free { min, max })
 }
 
+/// The system a geometry target belongs to (0 for any other target).
+fn p_system(t: Target) -> usize {
+    match t {
+        Target::Distance(s) | Target::Twist(s) => s,
+        _ => 0,
+    }
+}
+
+/// A geometry parameter's own mode: fixed, or free within bounds (angstrom,
+/// degrees); it cannot be linked.
+fn geometry_mode(p: &FitParameterDoc, g: GeometryField, at: &str) -> Result<Mode> {
+    if p.link.is_some() {
+        return Err(Error::new(ErrorKind::OutOfRange, format!("{at}.link"), format!("a {} cannot be linked", g.key())));
+    }
+    if p.fixed {
+        return Ok(Mode::Fixed);
+    }
+    for (name, v) in [("min", p.min), ("max", p.max)] {
+        v.map(|v| crate::error::finite(&format!("{at}.{name}"), v)).transpose()?;
+    }
+    let floor = if g == GeometryField::Distance { Some(crate::coupled::MIN_SEPARATION_ANGSTROM) } else { None };
+    let min = match (p.min, floor) {
+        (Some(m), Some(f)) => Some(m.max(f)),
+        (m, f) => m.or(f),
+    };
+    Ok(Mode::Free { min, max: p.max })
+}
+
 /// Fits the document's bands to its data sets and readings.
 pub fn fit(doc: &Document, model: &Model, sets: &[DataSet], progress: &mut dyn FnMut(usize, usize, f64) -> bool) -> Result<Fitted> {
-    if !model.systems.is_empty() {
-        // The residuals and their Jacobian are built from bands only; fitting
-        // a coupled system's geometry is not implemented yet (issue 15).
-        return Err(Error::new(
-            ErrorKind::OutOfRange,
-            "systems",
-            "fitting a document with coupled systems is not supported yet; remove the systems or fit the bands alone",
-        ));
-    }
     let settings = doc.fit.clone().unwrap_or_default();
     let starts = settings.starts.unwrap_or(DEFAULT_STARTS);
     let max_iterations = settings.max_iterations.unwrap_or(DEFAULT_MAX_ITERATIONS);
@@ -318,7 +470,7 @@ pub fn fit(doc: &Document, model: &Model, sets: &[DataSet], progress: &mut dyn F
         })
         .collect();
     let obs = Observations { sets: &fitted_sets, weights: &weights, readings: &readings };
-    let problem = FitProblem::new(model, layout, &obs).map_err(|m| Error::new(ErrorKind::OutOfRange, "data", m))?;
+    let problem = FitProblem::new(doc, model, layout, &obs).map_err(|m| Error::new(ErrorKind::OutOfRange, "data", m))?;
     if problem.is_empty() {
         return Err(Error::new(ErrorKind::MissingField, "data", "nothing to fit: the document has no shown data set and no reading"));
     }
@@ -379,6 +531,12 @@ fn write_back(doc: &mut Document, problem: &FitProblem, values: &[f64]) {
             Target::Rotatory(b) => doc.bands[b].rotatory_strength_1e40_cgs = *v,
             Target::Dipole(b) => doc.bands[b].dipole_strength_debye2 = *v,
             _ => {}
+        }
+    }
+    for (s, system) in doc.systems.iter_mut().enumerate() {
+        let (d, t) = problem.geometry(values, s);
+        if let Some(d) = d {
+            crate::coupled::geometry::set_distance_and_twist(system, d, t);
         }
     }
 }

@@ -31,6 +31,10 @@ pub enum Target {
     Offset(usize),
     /// A data set's scale factor (concentration uncertainty).
     Scale(usize),
+    /// A two-chromophore coupled system's distance, angstrom.
+    Distance(usize),
+    /// A two-chromophore coupled system's twist, degrees.
+    Twist(usize),
 }
 
 /// How a parameter takes part in the fit.

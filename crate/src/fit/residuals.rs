@@ -5,6 +5,7 @@
 use super::lm::Problem;
 use super::params::{Layout, Target};
 use crate::data::DataSet;
+use crate::document::{Document, SystemDoc};
 use crate::import::Measured;
 use crate::lineshape::Lineshape;
 use crate::model::Model;
@@ -50,7 +51,28 @@ pub struct FitProblem {
     /// Per set: (offset, scale) parameter indices.
     set_columns: Vec<(Option<usize>, Option<usize>)>,
     pub set_count: usize,
+    /// The coupled systems' share of each point (see [`CoupledTerm`]).
+    coupled: Vec<CoupledTerm>,
+    /// The solvent's index at each point (for screened coupling).
+    n_solvent: Vec<f64>,
 }
+
+/// A coupled system in the fit. Its response is not linear in anything the
+/// fit sets, so a free distance or twist takes central differences of the
+/// whole response (`GEOMETRY_STEP`); a system with neither free is
+/// evaluated once, at construction.
+#[derive(Debug, Clone)]
+struct CoupledTerm {
+    index: usize,
+    doc: SystemDoc,
+    distance: Option<usize>,
+    twist: Option<usize>,
+    /// Each point's part when the geometry is fixed.
+    fixed: Option<Vec<f64>>,
+}
+
+/// Central-difference steps for a system's distance (relative) and twist (degrees).
+const GEOMETRY_STEP: (f64, f64) = (1e-5, 1e-3);
 
 /// Which parameter sets each field of a band.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -72,7 +94,7 @@ pub struct Observations<'a> {
 }
 
 impl FitProblem {
-    pub fn new(model: &Model, layout: Layout, obs: &Observations) -> Result<FitProblem, String> {
+    pub fn new(doc: &Document, model: &Model, layout: Layout, obs: &Observations) -> Result<FitProblem, String> {
         let kinds = model
             .bands
             .iter()
@@ -110,7 +132,81 @@ impl FitProblem {
         let set_count = obs.sets.len() + usize::from(!obs.readings.is_empty());
         let set_columns = (0..set_count).map(|s| (index.get(&Target::Offset(s)).copied(), index.get(&Target::Scale(s)).copied())).collect();
         let shift = index.get(&Target::Shift).copied();
-        Ok(FitProblem { layout, kinds, points, bands, shift, set_columns, set_count })
+        let nu: Vec<f64> = points.iter().map(|p| p.nu).collect();
+        let n_solvent = crate::spectra::solvent_index(model, &nu).map_err(|e| e.to_string())?;
+        let mut problem = FitProblem { layout, kinds, points, bands, shift, set_columns, set_count, coupled: Vec::new(), n_solvent };
+        for (s, system) in doc.systems.iter().enumerate() {
+            let distance = index.get(&Target::Distance(s)).copied();
+            let twist = index.get(&Target::Twist(s)).copied();
+            let mut term = CoupledTerm { index: s, doc: system.clone(), distance, twist, fixed: None };
+            let moves = |c: Option<usize>| c.is_some_and(|c| problem.layout.map[c].is_some());
+            if !moves(distance) && !moves(twist) {
+                let values = problem.layout.values(&problem.layout.start());
+                term.fixed = Some(problem.coupled_parts(&term, &values, (0.0, 0.0))?);
+            }
+            problem.coupled.push(term);
+        }
+        Ok(problem)
+    }
+
+    /// A system's (distance, twist) at the given values, where the fit has them.
+    pub fn geometry(&self, values: &[f64], system: usize) -> (Option<f64>, Option<f64>) {
+        self.coupled.get(system).map_or((None, None), |t| (t.distance.map(|c| values[c]), t.twist.map(|c| values[c])))
+    }
+
+    /// Each point's part of a system's response (in the units of R or D in
+    /// the document, as the bands' strengths), at the values' geometry moved
+    /// by `step` (angstrom, degrees).
+    fn coupled_parts(&self, term: &CoupledTerm, values: &[f64], step: (f64, f64)) -> Result<Vec<f64>, String> {
+        let mut doc = term.doc.clone();
+        if let Some(c) = term.distance {
+            let twist = term.twist.map(|t| values[t] + step.1);
+            crate::coupled::geometry::set_distance_and_twist(&mut doc, values[c] + step.0, twist);
+        }
+        let system = crate::coupled::System::from_doc(term.index, &doc).map_err(|e| e.to_string())?;
+        let nu: Vec<f64> = self.points.iter().map(|p| p.nu).collect();
+        let (chiral, mean) = system.response(&nu, &self.n_solvent).map_err(|e| e.to_string())?;
+        Ok(self
+            .points
+            .iter()
+            .zip(chiral.iter().zip(&mean))
+            .map(|(p, (c, m))| match p.part {
+                Part::ChiralIm => c.im / units::ESU2_CM2_PER_ROTATORY_UNIT,
+                Part::ChiralRe => c.re / units::ESU2_CM2_PER_ROTATORY_UNIT,
+                Part::MeanIm => m.im / units::ESU2_CM2_PER_DEBYE2,
+            })
+            .collect())
+    }
+
+    /// Every system's parts at the values and, when asked, their derivatives
+    /// in each free geometry column: (parts, [(column, d parts)]). A geometry
+    /// the model refuses (e.g. two chromophores too close) gives NaN, which
+    /// the solver rejects as a step.
+    fn coupled_terms(&self, values: &[f64], derivatives: bool) -> (Vec<f64>, Vec<(usize, Vec<f64>)>) {
+        let mut total = vec![0.0; self.points.len()];
+        let mut columns = Vec::new();
+        let nan = || vec![f64::NAN; self.points.len()];
+        for term in &self.coupled {
+            let parts = match &term.fixed {
+                Some(p) => p.clone(),
+                None => self.coupled_parts(term, values, (0.0, 0.0)).unwrap_or_else(|_| nan()),
+            };
+            for (t, p) in total.iter_mut().zip(&parts) {
+                *t += p;
+            }
+            if !derivatives || term.fixed.is_some() {
+                continue;
+            }
+            for (column, is_distance) in [(term.distance, true), (term.twist, false)] {
+                let Some(c) = column.filter(|c| self.layout.map[*c].is_some()) else { continue };
+                let h = if is_distance { GEOMETRY_STEP.0 * values[c].abs().max(1.0) } else { GEOMETRY_STEP.1 };
+                let step = |sign: f64| if is_distance { (sign * h, 0.0) } else { (0.0, sign * h) };
+                let plus = self.coupled_parts(term, values, step(1.0)).unwrap_or_else(|_| nan());
+                let minus = self.coupled_parts(term, values, step(-1.0)).unwrap_or_else(|_| nan());
+                columns.push((c, plus.iter().zip(&minus).map(|(a, b)| (a - b) / (2.0 * h)).collect()));
+            }
+        }
+        (total, columns)
     }
 
     pub fn len(&self) -> usize {
@@ -159,6 +255,7 @@ impl FitProblem {
     fn evaluate(&self, values: &[f64], r: &mut Vec<f64>, jv: Option<&mut Vec<f64>>) {
         let np = self.layout.parameters.len();
         let shapes: Vec<Lineshape> = (0..self.kinds.len()).map(|b| self.shape(values, b)).collect();
+        let (coupled, coupled_columns) = self.coupled_terms(values, jv.is_some());
         r.clear();
         let mut jv = jv;
         if let Some(j) = jv.as_deref_mut() {
@@ -167,7 +264,7 @@ impl FitProblem {
         }
         for (i, p) in self.points.iter().enumerate() {
             let (offset, scale) = self.offset_scale(values, p.set);
-            let mut sum = 0.0;
+            let mut sum = coupled[i];
             match jv.as_deref_mut() {
                 None => {
                     for (b, shape) in shapes.iter().enumerate() {
@@ -194,6 +291,9 @@ impl FitProblem {
                         put(self.shift, dc);
                         put(cols.fwhm, strength * part_of(d.d_fwhm, p.part));
                         put(cols.lorentz, strength * part_of(d.d_lorentz_fwhm, p.part));
+                    }
+                    for (col, d) in &coupled_columns {
+                        row[*col] += k * d[i];
                     }
                     let (o, sc) = self.set_columns[p.set];
                     if let Some(col) = sc {

@@ -21,7 +21,7 @@ const D_SLIDER = [0, 20];
 const spanOf = (ends) => [Math.min(...ends), Math.max(...ends)];
 
 /** A number cell: text box above a slider. */
-function numberCell(id, label, errorId) {
+export function numberCell(id, label, errorId) {
   const input = el("input", { type: "text", inputMode: "decimal", className: "num", id, autocomplete: "off" });
   input.setAttribute("aria-label", label);
   input.setAttribute("aria-describedby", errorId);

@@ -153,3 +153,13 @@ export const kkLines = (doc, i) => reply(() => wasm.kk_lines(doc, i));
 export const readingRows = (doc) => reply(() => wasm.reading_rows(doc));
 /** The share link's length and whether links may hold it: `{ ok, chars, limit, fits }`. */
 export const linkSize = (doc) => reply(() => wasm.link_size(doc));
+
+// ---------------------------------------------------------------- coupled chromophores
+
+/** The coupled panel's defaults and caps: `{ ok, new_transition, couplet, ... }`. */
+export const coupledCatalog = () => reply(() => wasm.coupled_catalog());
+/** Two chromophores of transition `t` at distance and twist, checked: `{ ok, system }`. */
+export const coupletSystem = (distanceAngstrom, twistDeg, t) =>
+  reply(() => wasm.couplet_system(distanceAngstrom, twistDeg, t.shape, t.center_nm, t.fwhm_cm1, t.lorentz_fwhm_cm1, t.dipole_strength_debye2));
+/** System `i` of a document: directions as vectors and angles, a pair's distance and twist: `{ ok, chromophores, pair }`. */
+export const systemGeometry = (doc, i) => reply(() => wasm.system_geometry(doc, i));

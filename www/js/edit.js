@@ -13,6 +13,7 @@ import { persistSoon } from "./persist.js";
 import { showResult, cssFrame, sizeCanvases, layoutPlots, drawCrosshair } from "./plots.js";
 import { renderBands } from "./bands.js";
 import { renderSolvent } from "./sample.js";
+import { renderCoupled } from "./coupled.js";
 
 /** Hands the document to the core; redraws on success, marks the field at fault otherwise. */
 export function refresh() {
@@ -82,12 +83,13 @@ export function loadDocument(doc, { record: asStep = true } = {}) {
   state.cursorX = null;
   state.options.hold_cd_range = null;
   state.coreError = null;
-  dropFieldsIn("#band-rows, #solvent-detail");
+  dropFieldsIn("#band-rows, #solvent-detail, #coupled");
   clearLocalErrors();
   $("doc-title").value = doc.title ?? "";
   layoutPlots(doc.view?.plots ?? core.catalog.plots.map((p) => p.key));
   renderBands();
   renderSolvent();
+  renderCoupled();
   sizeCanvases();
   refresh();
   if (asStep) noted();

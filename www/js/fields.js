@@ -26,7 +26,7 @@ export function dropFieldsIn(selector) {
 /**
  * Binds a text box (and an optional slider) to one number of the document.
  * spec: { input, slider, get(), set(v), unit(), step(v), range(), log, optional,
- *         integer, canonical, label, deferred, changed(source) }
+ *         integer, canonical, label, deferred, changed(source), sliderStep }
  * get/set work in the unit shown; set may throw an Error whose message is shown.
  * A `deferred` field (the window ends) applies typing on Enter, on leaving the
  * box or after a pause, so a half-typed number is never applied.
@@ -160,7 +160,7 @@ function syncSlider(field) {
   }
   setIf(slider, "min", String(min));
   setIf(slider, "max", String(max));
-  setIf(slider, "step", field.integer ? "1" : String((max - min) / 1000));
+  setIf(slider, "step", field.integer ? "1" : String(field.sliderStep ?? (max - min) / 1000));
   // An empty optional field leaves its slider at the low end, not at its maximum.
   slider.classList.toggle("unset", !has);
   if (!has) {

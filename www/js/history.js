@@ -9,7 +9,7 @@ import { sayDone } from "./messages.js";
 import { loadDocument } from "./edit.js";
 
 /** Snapshots of the document (JSON); `at` is the one on screen. */
-const edits = { stack: [], at: -1, lastTime: 0, lastMerge: null };
+const edits = { stack: [], at: -1, lastTime: 0, lastMerge: null, held: null };
 const MAX_UNDO = 200;
 /** Typing or dragging in one control within this time is one edit. */
 const BURST_MS = 1000;
@@ -19,7 +19,7 @@ export function record(merge = null) {
   const snap = JSON.stringify(state.doc);
   if (edits.at >= 0 && snap === edits.stack[edits.at]) return;
   const now = performance.now();
-  const burst = merge !== null && merge === edits.lastMerge && now - edits.lastTime < BURST_MS;
+  const burst = merge !== null && merge === edits.lastMerge && (merge === edits.held || now - edits.lastTime < BURST_MS);
   if (burst && edits.at > 0) {
     edits.stack[edits.at] = snap;
   } else {
@@ -41,6 +41,20 @@ export function resetHistory() {
 /** The next edit starts a step of its own (after a drag ends). */
 export function closeStep() {
   edits.lastMerge = null;
+  edits.held = null;
+}
+
+/**
+ * A slider whose every drag is one step, however long it pauses: the drag
+ * starts a step of its own and folds the edits of `merge` (the control its
+ * edits name) into it until the pointer is let go.
+ */
+export function oneStepPerDrag(slider, merge) {
+  slider.addEventListener("pointerdown", () => {
+    edits.lastMerge = null;
+    edits.held = merge;
+    window.addEventListener("pointerup", closeStep, { once: true });
+  });
 }
 
 function syncButtons() {

@@ -20,6 +20,7 @@ import { bindExport } from "./export.js";
 import { bindShare } from "./share.js";
 import { startWiki } from "./wiki.js";
 import { bindColour } from "./colour.js";
+import { bindCoupled } from "./coupled.js";
 import { bindTheme, bindMenus, renderConventions } from "./chrome.js";
 
 async function main() {
@@ -45,6 +46,7 @@ async function main() {
   bindWindow();
   bindSample();
   bindBandTable();
+  bindCoupled();
   bindPlots();
   bindFiles();
   bindData();

@@ -62,7 +62,24 @@ function humanMessage(err, control) {
     const name = core.bandName(state.doc.bands[i], i);
     text = `band ${i + 1} (${name}): ${text}`;
   }
+  const where = systemPlace(err.field);
+  if (where) text = `${where}: ${text}`;
   return text.charAt(0).toUpperCase() + text.slice(1);
+}
+
+/** "system 1 (couplet), chromophore 2 (front)" for a field of a coupled system, else "". */
+function systemPlace(field) {
+  const m = /^systems\[(\d+)\](?:\.chromophores\[(\d+)\])?/.exec(field ?? "");
+  if (!m) return "";
+  const s = Number(m[1]);
+  const system = state.doc.systems?.[s];
+  let text = `system ${s + 1}${system?.name ? ` (${system.name})` : ""}`;
+  if (m[2] !== undefined) {
+    const j = Number(m[2]);
+    const name = system?.chromophores?.[j]?.name;
+    text += `, chromophore ${j + 1}${name ? ` (${name})` : ""}`;
+  }
+  return text;
 }
 
 /** A core error about a document, said in one line ("band 2 (fwhm_cm1): …"). */

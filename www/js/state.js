@@ -36,4 +36,8 @@ export const state = {
   stale: false,
   /** The colour panel's analyser angle (degrees) and light source key: page state, not the document's. */
   colour: { analyser_deg: 0, illuminant: null },
+  /** The coupled system shown in its panel (an index into doc.systems): page state. */
+  coupled: { shown: 0 },
+  /** How the 3-D view of the chromophores is turned (degrees) and a drag of it: page state. */
+  view3d: { yaw: -35, pitch: 20, drag: null },
 };

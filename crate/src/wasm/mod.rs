@@ -6,11 +6,13 @@
 //!
 //! Parts: `catalog` (names, keys, caps and defaults the page builds its
 //! controls from), `workbench` (the four canvases and the last good model),
-//! `canvas` (the fast plotters canvas backend), `reply` (the reply shape).
+//! `canvas` (the fast plotters canvas backend), `reply` (the reply shape),
+//! `coupled` (the coupled-chromophore panel: couplet helper, geometry).
 
 mod canvas;
 mod catalog;
 mod colour;
+mod coupled;
 mod data;
 mod reply;
 mod workbench;

@@ -1,0 +1,158 @@
+// The 3-D view of the shown coupled system on a 2-D canvas: an orthographic
+// projection with z up, chromophores as dots, each transition dipole as an
+// arrow through its chromophore, the x, y, z axes through the origin. Drag
+// (or the arrow keys) turns it; how it is turned is page state. It is drawn
+// only when something changed, once per animation frame.
+
+import { $ } from "./dom.js";
+import { state } from "./state.js";
+import { geometry, shownSystem } from "./coupled.js";
+
+const HEIGHT_PX = 220;
+/** Degrees turned per pixel dragged, and per arrow key. */
+const DEG_PER_PX = 0.5;
+const DEG_PER_KEY = 10;
+
+let pending = false;
+export function drawView3dSoon() {
+  if (pending) return;
+  pending = true;
+  requestAnimationFrame(() => {
+    pending = false;
+    draw();
+  });
+}
+
+/** Turns a point (Å) to the screen frame: [right, up, depth (away from the eye)]. */
+function turn([x, y, z]) {
+  const a = (state.view3d.yaw * Math.PI) / 180;
+  const b = (state.view3d.pitch * Math.PI) / 180;
+  const u = x * Math.cos(a) - y * Math.sin(a);
+  const w = x * Math.sin(a) + y * Math.cos(a);
+  return [u, z * Math.cos(b) + w * Math.sin(b), w * Math.cos(b) - z * Math.sin(b)];
+}
+
+function line(ctx, [x0, y0], [x1, y1]) {
+  ctx.beginPath();
+  ctx.moveTo(x0, y0);
+  ctx.lineTo(x1, y1);
+  ctx.stroke();
+}
+
+/** An arrow head at (x1, y1), pointing away from (x0, y0). */
+function head(ctx, [x0, y0], [x1, y1], size) {
+  if (Math.hypot(x1 - x0, y1 - y0) < size) return;
+  const a = Math.atan2(y1 - y0, x1 - x0);
+  ctx.beginPath();
+  ctx.moveTo(x1, y1);
+  ctx.lineTo(x1 - size * Math.cos(a - 0.45), y1 - size * Math.sin(a - 0.45));
+  ctx.lineTo(x1 - size * Math.cos(a + 0.45), y1 - size * Math.sin(a + 0.45));
+  ctx.closePath();
+  ctx.fill();
+}
+
+function draw() {
+  const canvas = $("chromophore-view");
+  const system = shownSystem();
+  if (!canvas || !system || canvas.closest("[hidden]")) return;
+  const dpr = window.devicePixelRatio || 1;
+  const w = canvas.clientWidth;
+  const h = HEIGHT_PX;
+  if (canvas.width !== Math.round(w * dpr) || canvas.height !== Math.round(h * dpr)) {
+    canvas.width = Math.round(w * dpr);
+    canvas.height = Math.round(h * dpr);
+  }
+  const ctx = canvas.getContext("2d");
+  ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
+  const css = getComputedStyle(canvas);
+  const ink = css.getPropertyValue("--ink").trim() || "#000";
+  const muted = css.getPropertyValue("--muted").trim() || "#666";
+  const accent = css.getPropertyValue("--accent").trim() || "#06c";
+  ctx.clearRect(0, 0, w, h);
+
+  const g = geometry();
+  const items = (g?.chromophores ?? []).map((c, j) => ({ ...c, name: system.chromophores[j]?.name || String(j + 1) }));
+  // Scale: every chromophore, its arrows and the axes' ends fit the canvas.
+  const spread = Math.max(1, ...items.map((c) => Math.hypot(...c.position)));
+  const half = Math.max(1.5, 0.45 * spread);
+  const reach = spread + half;
+  const scale = (Math.min(w, h) / 2 - 16) / reach;
+  const screen = (p) => {
+    const [u, v, d] = turn(p);
+    return { x: w / 2 + u * scale, y: h / 2 - v * scale, d };
+  };
+
+  ctx.lineWidth = 1;
+  ctx.font = "11px system-ui, sans-serif";
+  ctx.strokeStyle = muted;
+  ctx.fillStyle = muted;
+  for (const [k, name] of ["x", "y", "z"].entries()) {
+    const end = [0, 0, 0];
+    end[k] = reach * 0.95;
+    const o = screen([0, 0, 0]);
+    const e = screen(end);
+    ctx.setLineDash([3, 3]);
+    line(ctx, [o.x, o.y], [e.x, e.y]);
+    ctx.setLineDash([]);
+    head(ctx, [o.x, o.y], [e.x, e.y], 6);
+    ctx.fillText(name, e.x + 4, e.y - 3);
+  }
+
+  // Far things first, so that near ones are drawn over them; far ones paler.
+  const depth = items.map((c) => turn(c.position)[2]);
+  const span = Math.max(1e-9, Math.max(...depth) - Math.min(...depth));
+  const order = items.map((_, j) => j).sort((a, b) => depth[b] - depth[a]);
+  for (const j of order) {
+    const c = items[j];
+    const p = screen(c.position);
+    ctx.globalAlpha = items.length > 1 ? 1 - (0.45 * (depth[j] - Math.min(...depth))) / span : 1;
+    ctx.strokeStyle = accent;
+    ctx.fillStyle = accent;
+    ctx.lineWidth = 2.5;
+    for (const e of c.transitions) {
+      if (!e) continue;
+      const a = screen(c.position.map((x, k) => x - half * e[k]));
+      const b = screen(c.position.map((x, k) => x + half * e[k]));
+      line(ctx, [a.x, a.y], [b.x, b.y]);
+      head(ctx, [a.x, a.y], [b.x, b.y], 9);
+    }
+    ctx.fillStyle = ink;
+    ctx.beginPath();
+    ctx.arc(p.x, p.y, 4.5, 0, 2 * Math.PI);
+    ctx.fill();
+    ctx.fillText(c.name, p.x + 7, p.y + 13);
+  }
+  ctx.globalAlpha = 1;
+}
+
+export function bindView3d() {
+  const canvas = $("chromophore-view");
+  canvas.addEventListener("pointerdown", (e) => {
+    canvas.setPointerCapture(e.pointerId);
+    state.view3d.drag = { x: e.clientX, y: e.clientY, yaw: state.view3d.yaw, pitch: state.view3d.pitch };
+    canvas.classList.add("turning");
+  });
+  canvas.addEventListener("pointermove", (e) => {
+    const d = state.view3d.drag;
+    if (!d) return;
+    state.view3d.yaw = d.yaw + (e.clientX - d.x) * DEG_PER_PX;
+    state.view3d.pitch = Math.max(-90, Math.min(90, d.pitch + (e.clientY - d.y) * DEG_PER_PX));
+    drawView3dSoon();
+  });
+  const end = () => {
+    state.view3d.drag = null;
+    canvas.classList.remove("turning");
+  };
+  canvas.addEventListener("pointerup", end);
+  canvas.addEventListener("pointercancel", end);
+  canvas.addEventListener("keydown", (e) => {
+    const by = { ArrowLeft: [-1, 0], ArrowRight: [1, 0], ArrowUp: [0, -1], ArrowDown: [0, 1] }[e.key];
+    if (!by) return;
+    e.preventDefault();
+    state.view3d.yaw += by[0] * DEG_PER_KEY;
+    state.view3d.pitch = Math.max(-90, Math.min(90, state.view3d.pitch + by[1] * DEG_PER_KEY));
+    drawView3dSoon();
+  });
+  window.addEventListener("resize", drawView3dSoon);
+  window.matchMedia?.("(prefers-color-scheme: dark)").addEventListener?.("change", drawView3dSoon);
+}

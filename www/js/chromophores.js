@@ -24,7 +24,7 @@ const COLUMNS = 12;
 
 /** A number of the document: a text box over a slider, bound to `path`. */
 function cell(path, label, errorId, spec) {
-  const c = numberCell(`c-${path.replace(/[^a-z0-9]+/gi, "-")}`, label, errorId);
+  const c = numberCell(`c-${path.replace(/[^a-z0-9]+/gi, "-").replace(/-$/, "")}`, label, errorId);
   c.input.dataset.field = path;
   bindNumber({ ...c, label: "", canonical: false, unit: () => "", ...spec });
   return el("td", { className: "col-num" }, c.cell);

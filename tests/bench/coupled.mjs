@@ -1,0 +1,62 @@
+// Browser timing script (run on demand, not a test):
+//   node tests/bench/coupled.mjs [--rounds N]
+// Opens the invented helix demo (fixtures/demo/helix.json: 20 chromophores x
+// 2 transitions, DeVoe's coupled response) in the page on 2000 points, then
+// times, for N edits of the concentration, the page's input handler
+// (document validated, spectra evaluated with the coupled system, all plots
+// redrawn). The same document without its system is timed in the same run,
+// so the difference is the coupled response in the page. Prints medians.
+import { readFileSync } from "node:fs";
+import { startBrowser, openPage, DEMO } from "../lib/harness.mjs";
+import { join, dirname } from "node:path";
+
+const arg = (name, dflt) => {
+  const i = process.argv.indexOf(name);
+  return i > 0 ? Number(process.argv[i + 1]) : dflt;
+};
+const rounds = arg("--rounds", 40);
+const median = (xs) => {
+  const s = [...xs].sort((a, b) => a - b);
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
+};
+
+const helix = JSON.parse(readFileSync(join(dirname(DEMO), "helix.json"), "utf8"));
+const bare = { ...helix, systems: undefined };
+
+async function time(env, doc, label) {
+  const { page, log } = await openPage(env, { width: 1280, height: 800 });
+  await page.setInputFiles("#file-input", { name: "model.json", mimeType: "application/json", buffer: Buffer.from(JSON.stringify(doc)) });
+  await page.waitForFunction(() => document.getElementById("conc").value !== "");
+  await page.fill("#points", "2000");
+  await page.press("#points", "Enter");
+  const handler = await page.evaluate(async (rounds) => {
+    const input = document.getElementById("conc");
+    const out = [];
+    const nextFrame = () => new Promise((ok) => requestAnimationFrame(() => ok()));
+    for (let i = 0; i < rounds; i++) {
+      await nextFrame();
+      input.value = String(1e-5 * (1 + (i % 5) / 10));
+      let ok = false;
+      document.addEventListener("chiroptic:updated", (e) => (ok = e.detail.ok), { once: true });
+      const t0 = performance.now();
+      input.dispatchEvent(new Event("input", { bubbles: true }));
+      out.push(performance.now() - t0);
+      if (!ok) throw new Error("an update failed during the timing");
+    }
+    return out;
+  }, rounds);
+  if (log.errors.length) console.log(`console errors: ${log.errors.join(" | ")}`);
+  console.log(`${label}: handler median ${median(handler).toFixed(2)} ms, min ${Math.min(...handler).toFixed(2)} ms (${rounds} edits)`);
+  await page.close();
+  return median(handler);
+}
+
+const env = await startBrowser();
+try {
+  const with_ = await time(env, helix, "helix 20 x 2 on 2000 points");
+  const without = await time(env, bare, "the same document without its system");
+  console.log(`coupled response in the page: about ${(with_ - without).toFixed(2)} ms per edit`);
+} finally {
+  await env.close();
+}

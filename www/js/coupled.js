@@ -29,6 +29,9 @@ export function coupledCatalog() {
 
 export const shownSystem = () => state.doc?.systems?.[state.coupled.shown] ?? null;
 
+/** The shown system alone in an empty model: what the core reads for it (no bands or data). */
+const alone = (system) => ({ ...core.catalog.empty_document, systems: [system] });
+
 let cache = { key: null, value: null };
 /** The core's geometry of the shown system (directions, a pair's distance and twist), kept until it changes. */
 export function geometry() {
@@ -36,8 +39,7 @@ export function geometry() {
   if (!system) return null;
   const key = JSON.stringify(system);
   if (cache.key !== key) {
-    // The system alone in an empty model: the core reads no bands or data for it.
-    const r = core.systemGeometry({ ...core.catalog.empty_document, systems: [system] }, 0);
+    const r = core.systemGeometry(alone(system), 0);
     cache = { key, value: r.ok ? r : null };
   }
   return cache.value;
@@ -45,11 +47,11 @@ export function geometry() {
 
 const pair = () => geometry()?.pair ?? null;
 
-/** Puts the shown pair where the core's couplet helper puts a pair at distance d and twist t. */
+/** Puts the shown pair where the core's couplet helper puts a pair at distance d and twist t (names, transitions and switches stay). */
 function rebuildPair(d, t) {
   const r = core.coupletSystem(d, t, coupledCatalog().new_transition);
   if (!r.ok) throw new Error(r.error.message);
-  // In place: the table's fields hold these arrays.
+  // In place: the table's fields hold these objects.
   shownSystem().chromophores.forEach((c, j) => {
     c.position_angstrom.splice(0, 3, ...r.system.chromophores[j].position_angstrom);
     c.direction = r.system.chromophores[j].direction;
@@ -68,7 +70,7 @@ function pairControls() {
   return [
     ...pairField("couplet-distance", "Distance d", "Å", {
       get: () => pair()?.distance_angstrom,
-      set: (v) => rebuildPair(v, pair()?.twist_deg ?? k.couplet.twist_deg),
+      set: (v) => rebuildPair(v, pair()?.twist_deg ?? coupledCatalog().couplet.twist_deg),
       step: () => 0.5,
       range: () => k.distance_slider_angstrom,
       sliderStep: 0.1,

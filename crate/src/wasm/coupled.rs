@@ -1,12 +1,12 @@
 //! Coupled chromophores for the page: the defaults of its panel, the couplet
 //! helper (`coupled::geometry::couplet`) and the geometry the table and the
 //! 3-D view show (directions as vectors and as angles, a pair's distance and
-//! twist), so that no geometry is written in JavaScript.
+//! twist by `distance_and_twist`), so that no geometry is written in JavaScript.
 
 use super::reply;
-use crate::coupled::geometry::couplet;
+use crate::coupled::geometry::{couplet, distance_and_twist};
 use crate::coupled::{System, MIN_SEPARATION_ANGSTROM};
-use crate::document::{ChromophoreDoc, Direction, SystemDoc, TransitionDoc};
+use crate::document::{ChromophoreDoc, Direction, Document, SystemDoc, TransitionDoc};
 use crate::error::{Error, ErrorKind};
 use crate::limits::{MAX_CHROMOPHORES, MAX_SYSTEMS, MAX_TRANSITIONS_PER_CHROMOPHORE};
 use serde_json::json;
@@ -79,16 +79,8 @@ pub fn couplet_system(
         direction: None,
     };
     let result = (|| {
-        crate::error::finite("distance_angstrom", distance_angstrom)?;
+        check_distance(distance_angstrom)?;
         crate::error::finite("twist_deg", twist_deg)?;
-        // Said of the distance typed, before the model names the chromophores.
-        if distance_angstrom < MIN_SEPARATION_ANGSTROM {
-            return Err(Error::new(
-                ErrorKind::OutOfRange,
-                "distance_angstrom",
-                format!("the two chromophores must be at least {MIN_SEPARATION_ANGSTROM} Å apart (got {distance_angstrom} Å)"),
-            ));
-        }
         let system = couplet(distance_angstrom, twist_deg, &transition);
         System::from_doc(0, &system)?;
         Ok(system)
@@ -109,40 +101,34 @@ fn unit(d: Direction) -> Option<[f64; 3]> {
     (len.is_finite() && len > 0.0).then(|| v.map(|c| c / len))
 }
 
-/// A pair's distance and twist: the angle, about the axis from the first
-/// chromophore to the second, from the first's dipole to the second's, each
-/// seen across the axis (the inverse of `couplet`, wherever the pair lies).
-fn pair(system: &SystemDoc) -> Option<(f64, f64)> {
-    let [a, b] = system.chromophores.as_slice() else { return None };
-    let axis: [f64; 3] = std::array::from_fn(|k| b.position_angstrom[k] - a.position_angstrom[k]);
-    let d = axis.iter().map(|c| c * c).sum::<f64>().sqrt();
-    if !(d.is_finite() && d > 0.0) {
-        return None;
+fn system_of(doc: &Document, index: usize) -> Result<&SystemDoc, Error> {
+    doc.systems.get(index).ok_or_else(|| Error::new(ErrorKind::OutOfRange, "systems", format!("the document has no system {}", index + 1)))
+}
+
+/// The distance must keep the pair apart (said of the distance typed, before
+/// the model names the chromophores).
+fn check_distance(distance_angstrom: f64) -> Result<(), Error> {
+    crate::error::finite("distance_angstrom", distance_angstrom)?;
+    if distance_angstrom < MIN_SEPARATION_ANGSTROM {
+        return Err(Error::new(
+            ErrorKind::OutOfRange,
+            "distance_angstrom",
+            format!("the two chromophores must be at least {MIN_SEPARATION_ANGSTROM} Å apart (got {distance_angstrom} Å)"),
+        ));
     }
-    let n = axis.map(|c| c / d);
-    let across = |e: [f64; 3]| {
-        let along = e[0] * n[0] + e[1] * n[1] + e[2] * n[2];
-        [e[0] - along * n[0], e[1] - along * n[1], e[2] - along * n[2]]
-    };
-    let (p, q) = (across(unit(a.direction)?), across(unit(b.direction)?));
-    let cross = [p[1] * q[2] - p[2] * q[1], p[2] * q[0] - p[0] * q[2], p[0] * q[1] - p[1] * q[0]];
-    let sin = cross[0] * n[0] + cross[1] * n[1] + cross[2] * n[2];
-    let cos = p[0] * q[0] + p[1] * q[1] + p[2] * q[2];
-    Some((d, sin.atan2(cos).to_degrees()))
+    Ok(())
 }
 
 /// What the page shows of system `index` of a document: `{ ok, chromophores:
 /// [{ position, direction, polar_deg, azimuth_deg, transitions: [direction] }],
 /// pair }`, a direction being a unit vector or null, `pair` `{
-/// distance_angstrom, twist_deg }` for two chromophores (else null). The
-/// document is read as files are (names and types, not values).
+/// distance_angstrom, twist_deg }` for two chromophores (else null; the
+/// twist null where a direction lies along the axis). The document is read
+/// as files are (names and types, not values).
 #[wasm_bindgen]
 pub fn system_geometry(doc: JsValue, index: usize) -> JsValue {
     let result = super::document_from_js(doc).and_then(|doc| {
-        let system = doc
-            .systems
-            .get(index)
-            .ok_or_else(|| Error::new(ErrorKind::OutOfRange, "systems", format!("the document has no system {}", index + 1)))?;
+        let system = system_of(&doc, index)?;
         let chromophores: Vec<_> = system
             .chromophores
             .iter()
@@ -157,7 +143,7 @@ pub fn system_geometry(doc: JsValue, index: usize) -> JsValue {
                         "azimuth_deg": azimuth, "transitions": transitions })
             })
             .collect();
-        let pair = pair(system).map(|(d, t)| json!({ "distance_angstrom": d, "twist_deg": t }));
+        let pair = distance_and_twist(system).map(|(d, t)| json!({ "distance_angstrom": d, "twist_deg": t }));
         Ok(json!({ "chromophores": chromophores, "pair": pair }))
     });
     reply::reply(result)

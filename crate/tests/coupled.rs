@@ -460,3 +460,36 @@ fn helix_demo_fixture_is_the_helper_output() {
     assert_eq!(saved, doc);
     assert!(Model::from_document(&saved).is_ok());
 }
+
+/// Every verb that reads a model works on a document with a coupled system
+/// (the invented helix demo): exit 0 and output, through the same `evaluate`.
+#[test]
+fn every_model_verb_reads_a_document_with_systems() {
+    let bin = env!("CARGO_BIN_EXE_chiroptic");
+    let helix = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("../fixtures/demo/helix.json");
+    let h = helix.to_str().unwrap();
+    let dir = std::env::temp_dir().join(format!("chiroptic-verbs-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let svg = dir.join("cd.svg");
+    let verbs: Vec<Vec<&str>> = vec![
+        vec!["eval", h, "--from", "200", "--to", "400", "--step", "5"],
+        vec!["lines", h],
+        vec!["render", h, "--plot", "cd", "-o", svg.to_str().unwrap()],
+        vec!["link", h],
+        vec!["colour", h, "--analyser", "45"],
+        vec!["geometry-export", h],
+    ];
+    for args in verbs {
+        let out = std::process::Command::new(bin).args(&args).output().unwrap();
+        assert!(out.status.success(), "{args:?}: {}", String::from_utf8_lossy(&out.stderr));
+        assert!(!out.stdout.is_empty() || svg.exists(), "{args:?} wrote nothing");
+    }
+    // The link opens back to the same document.
+    let link = std::process::Command::new(bin).args(["link", h]).output().unwrap();
+    let text = String::from_utf8_lossy(&link.stdout).trim().to_string();
+    let opened = std::process::Command::new(bin).args(["open", &text]).output().unwrap();
+    assert!(opened.status.success(), "{}", String::from_utf8_lossy(&opened.stderr));
+    let back = Document::from_json(&String::from_utf8_lossy(&opened.stdout)).unwrap();
+    assert_eq!(back.systems, Document::from_json(&std::fs::read_to_string(&helix).unwrap()).unwrap().systems);
+    std::fs::remove_dir_all(&dir).ok();
+}

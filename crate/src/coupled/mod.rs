@@ -131,7 +131,12 @@ impl System {
                     return Err(Error::new(
                         ErrorKind::OutOfRange,
                         format!("{cat}.position_angstrom"),
-                        format!("chromophores {other} and {j} are {d} Å apart; they must be at least {MIN_SEPARATION_ANGSTROM} Å apart"),
+                        format!(
+                            "chromophores {} and {} (counted from 1) are {} Å apart; they must be at least {MIN_SEPARATION_ANGSTROM} Å apart",
+                            other + 1,
+                            j + 1,
+                            format!("{d:.3}")
+                        ),
                     ));
                 }
             }

@@ -132,10 +132,9 @@ impl System {
                         ErrorKind::OutOfRange,
                         format!("{cat}.position_angstrom"),
                         format!(
-                            "chromophores {} and {} (counted from 1) are {} Å apart; they must be at least {MIN_SEPARATION_ANGSTROM} Å apart",
+                            "chromophores {} and {} (counted from 1) are {d:.3} Å apart; they must be at least {MIN_SEPARATION_ANGSTROM} Å apart",
                             other + 1,
-                            j + 1,
-                            format!("{d:.3}")
+                            j + 1
                         ),
                     ));
                 }

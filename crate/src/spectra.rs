@@ -4,6 +4,7 @@
 use crate::error::{Error, ErrorKind, Result};
 use crate::model::Model;
 use crate::units::{self, AxisUnit, CdUnit, OrdUnit, SampleContext, UnitError, DIPOLE_CONSTANT, ROTATORY_CONSTANT};
+use num_complex::Complex64;
 use std::f64::consts::{LN_10, PI};
 
 pub use crate::limits::MAX_GRID_POINTS;
@@ -71,14 +72,18 @@ impl Grid {
     }
 }
 
-/// One band's share of the spectra (the sum over bands gives the total).
+/// One band's share of the spectra (the sum over bands gives the total):
+/// its shape s on the grid and its two scaled strengths. The band's columns
+/// are made from these when asked for ([`Spectra::band_delta_n`] ...), so
+/// that `evaluate` costs little more than the shapes themselves.
 #[derive(Debug, Clone, PartialEq)]
 pub struct BandContribution {
     pub name: String,
-    pub delta_n: Vec<f64>,
-    pub delta_epsilon: Vec<f64>,
-    pub epsilon: Vec<f64>,
-    pub rotation_deg: Vec<f64>,
+    /// chiral_scale * R: Dn = chiral * Re s, Dk = chiral * Im s.
+    pub chiral: f64,
+    /// mean_scale * D: k = mean * Im s.
+    pub mean: f64,
+    pub shape: Vec<Complex64>,
 }
 
 #[derive(Debug, Clone, PartialEq)]
@@ -101,6 +106,9 @@ pub struct Spectra {
     pub epsilon: Vec<f64>,
     pub g_factor: Vec<f64>,
     pub bands: Vec<BandContribution>,
+    /// Per point: e = epsilon_per_k * k and phi = degrees_per_delta_n * Dn.
+    pub epsilon_per_k: Vec<f64>,
+    pub degrees_per_delta_n: Vec<f64>,
 }
 
 /// Evaluates the model on a grid of wavenumbers (cm^-1).
@@ -134,19 +142,15 @@ pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
         // The chiral pair takes the odd-type shape s, the mean index the
         // even-type s~ (same Im on nu > 0; see lineshape).
         let (shape, mean_re) = band.lineshape.values_with_mean(wavenumber_cm1, &ln_nu);
-        for (i, s) in shape.iter().enumerate() {
-            delta_n[i] += r * s.re;
-            delta_k[i] += r * s.im;
-            dn_mean[i] += d * mean_re[i];
-            k_mean[i] += d * s.im;
+        // Zipped, not indexed: no bounds check in the one loop every band runs.
+        let sums = delta_n.iter_mut().zip(delta_k.iter_mut()).zip(dn_mean.iter_mut().zip(k_mean.iter_mut()));
+        for (((dn, dk), (mn, mk)), (s, m)) in sums.zip(shape.iter().zip(&mean_re)) {
+            *dn += r * s.re;
+            *dk += r * s.im;
+            *mn += d * m;
+            *mk += d * s.im;
         }
-        contributions.push(BandContribution {
-            name: band.name.clone(),
-            delta_n: shape.iter().map(|s| r * s.re).collect(),
-            delta_epsilon: shape.iter().zip(&eps_per_k).map(|(s, f)| f * r * s.im).collect(),
-            epsilon: shape.iter().zip(&eps_per_k).map(|(s, f)| f * d * s.im).collect(),
-            rotation_deg: shape.iter().zip(&deg_per_dn).map(|(s, f)| f * r * s.re).collect(),
-        });
+        contributions.push(BandContribution { name: band.name.clone(), chiral: r, mean: d, shape });
     }
 
     // Coupled chromophores (coupled): their response joins the bands'.
@@ -181,6 +185,8 @@ pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
         delta_n,
         delta_k,
         bands: contributions,
+        epsilon_per_k: eps_per_k,
+        degrees_per_delta_n: deg_per_dn,
     })
 }
 
@@ -260,8 +266,28 @@ impl Spectra {
 
     /// One band's CD in a chosen unit (g uses the band's own e).
     pub fn band_cd_in(&self, band: usize, unit: CdUnit) -> std::result::Result<Vec<f64>, UnitError> {
+        cd_values(&self.band_delta_epsilon(band)?, &self.band_epsilon(band)?, unit, &self.context)
+    }
+
+    /// A band's Dn (each product as the sums take it, so the bands add to the total).
+    pub fn band_delta_n(&self, band: usize) -> std::result::Result<Vec<f64>, UnitError> {
         let b = self.band(band)?;
-        cd_values(&b.delta_epsilon, &b.epsilon, unit, &self.context)
+        Ok(b.shape.iter().map(|s| b.chiral * s.re).collect())
+    }
+
+    pub fn band_delta_epsilon(&self, band: usize) -> std::result::Result<Vec<f64>, UnitError> {
+        let b = self.band(band)?;
+        Ok(b.shape.iter().zip(&self.epsilon_per_k).map(|(s, f)| f * b.chiral * s.im).collect())
+    }
+
+    pub fn band_epsilon(&self, band: usize) -> std::result::Result<Vec<f64>, UnitError> {
+        let b = self.band(band)?;
+        Ok(b.shape.iter().zip(&self.epsilon_per_k).map(|(s, f)| f * b.mean * s.im).collect())
+    }
+
+    pub fn band_rotation_deg(&self, band: usize) -> std::result::Result<Vec<f64>, UnitError> {
+        let b = self.band(band)?;
+        Ok(b.shape.iter().zip(&self.degrees_per_delta_n).map(|(s, f)| f * b.chiral * s.re).collect())
     }
 
     /// The total rotation in a chosen unit.
@@ -270,7 +296,7 @@ impl Spectra {
     }
 
     pub fn band_ord_in(&self, band: usize, unit: OrdUnit) -> std::result::Result<Vec<f64>, UnitError> {
-        ord_values(&self.band(band)?.rotation_deg, &self.wavenumber_cm1, unit, &self.context)
+        ord_values(&self.band_rotation_deg(band)?, &self.wavenumber_cm1, unit, &self.context)
     }
 
     fn band(&self, band: usize) -> std::result::Result<&BandContribution, UnitError> {

@@ -247,8 +247,7 @@ mod extreme_values {
             s.n_left = values.clone();
             s.delta_n = values.clone();
             if let Some(b) = s.bands.first_mut() {
-                b.delta_epsilon = values.clone();
-                b.rotation_deg = values.clone();
+                b.shape = values.iter().map(|v| num_complex::Complex64::new(*v, -v)).collect();
             }
             let req = PlotRequest::new(kind, &s, AxisUnit::Nanometre, (lo, lo + width));
             match svg(&req, 320, 200) {

@@ -64,14 +64,14 @@ pub fn traces(req: &PlotRequest, theme: &Theme) -> Result<(Vec<Trace>, Vec<Trace
             vec![sum(SUM_NAME, total)]
         }
         PlotKind::Absorption => {
-            for (i, b) in s.bands.iter().enumerate().filter(|(i, _)| wanted(*i)) {
-                bands.push(band(i, b.epsilon.clone(), false));
+            for i in (0..n_bands).filter(|i| wanted(*i)) {
+                bands.push(band(i, s.band_epsilon(i).map_err(|e| unit_error("bands", e))?, false));
             }
             vec![sum(SUM_NAME, s.epsilon.clone())]
         }
         PlotKind::Index => {
-            for (i, b) in s.bands.iter().enumerate().filter(|(i, _)| wanted(*i)) {
-                bands.push(band(i, b.delta_n.clone(), true));
+            for i in (0..n_bands).filter(|i| wanted(*i)) {
+                bands.push(band(i, s.band_delta_n(i).map_err(|e| unit_error("bands", e))?, true));
             }
             // n_L and n_R differ by ~1e-8 beside n ~ 1.4: the plot shows what
             // the bands add to the solvent's index, and Δn on its own axis.

@@ -22,12 +22,24 @@ function inlinedWasm() {
   return { module_or_path: bytes };
 }
 
+/**
+ * Strokes a trace the core hands over as one array [x0, y0, x1, y1 ...] with
+ * the style it has set: one call per trace instead of one per segment.
+ */
+function strokePolyline(context, xy) {
+  context.beginPath();
+  context.moveTo(xy[0], xy[1]);
+  for (let i = 2; i < xy.length; i += 2) context.lineTo(xy[i], xy[i + 1]);
+  context.stroke();
+}
+
 /** Loads the module; `canvasOf(key)` gives the canvas of each plot the catalog names. */
 export async function start(canvasOf) {
   await init(inlinedWasm());
   const c = wasm.catalog();
   if (!c.ok) throw new Error(`the core's catalog does not load: ${c.error.message}`);
   catalog = c;
+  wasm.use_polyline_painter(strokePolyline);
   workbench = new wasm.Workbench(...catalog.plots.map((p) => canvasOf(p.key)));
 }
 

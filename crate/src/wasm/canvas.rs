@@ -4,14 +4,30 @@
 //! and remembered across redraws; and a polyline is cut to the points that
 //! change its picture (per pixel column: first, lowest, highest, last), since
 //! 2000 points across a few hundred pixels would otherwise mean thousands of
-//! calls into the browser per trace. Drawing is still plotters-canvas's.
+//! calls into the browser per trace, and the cut polyline goes to the page's
+//! painter as one Float64Array (one call per trace; `use_polyline_painter`).
+//! Everything else is drawn by plotters-canvas.
 use plotters_backend::{BackendColor, BackendCoord, BackendStyle, BackendTextStyle, DrawingBackend, DrawingErrorKind};
 use plotters_canvas::CanvasBackend;
 use std::cell::RefCell;
 use std::collections::HashMap;
 use std::rc::Rc;
-use wasm_bindgen::JsCast;
+use wasm_bindgen::prelude::wasm_bindgen;
+use wasm_bindgen::{JsCast, JsValue};
 use web_sys::{CanvasRenderingContext2d, HtmlCanvasElement};
+
+thread_local! {
+    /// The page's polyline painter, `(context, Float64Array [x0, y0, x1, y1 ...])`,
+    /// which strokes the path as plotters-canvas would (begin, move, lines,
+    /// stroke) with the style already set. None: plotters-canvas draws.
+    static POLYLINE: RefCell<Option<js_sys::Function>> = const { RefCell::new(None) };
+}
+
+/// Hands the core the page's polyline painter (see `POLYLINE`).
+#[wasm_bindgen]
+pub fn use_polyline_painter(painter: js_sys::Function) {
+    POLYLINE.with(|p| *p.borrow_mut() = Some(painter));
+}
 
 /// Measured text boxes by (CSS font, text); shared by the four canvases.
 pub type TextSizes = Rc<RefCell<HashMap<(String, String), (u32, u32)>>>;
@@ -101,7 +117,22 @@ impl DrawingBackend for FastCanvas {
         self.inner.draw_rect(upper_left, bottom_right, style, fill)
     }
     fn draw_path<S: BackendStyle, I: IntoIterator<Item = BackendCoord>>(&mut self, path: I, style: &S) -> Result<(), Failure> {
-        self.inner.draw_path(thin_path(path), style)
+        let points = thin_path(path);
+        let Some(painter) = POLYLINE.with(|p| p.borrow().clone()) else { return self.inner.draw_path(points, style) };
+        let colour = style.color();
+        if colour.alpha == 0.0 || points.is_empty() {
+            return Ok(());
+        }
+        // The stroke style exactly as plotters-canvas sets it, so the pixels are its own.
+        let (r, g, b) = colour.rgb;
+        self.context.set_stroke_style_str(&format!("rgba({},{},{},{})", r, g, b, colour.alpha));
+        self.context.set_line_width(style.stroke_width() as f64);
+        let xy: Vec<f64> = points.iter().flat_map(|p| [f64::from(p.0), f64::from(p.1)]).collect();
+        match painter.call2(&JsValue::NULL, &JsValue::from(&self.context), &js_sys::Float64Array::from(&xy[..])) {
+            Ok(_) => Ok(()),
+            // A painter that throws: plotters-canvas draws this path instead.
+            Err(_) => self.inner.draw_path(points, style),
+        }
     }
     fn draw_circle<S: BackendStyle>(&mut self, center: BackendCoord, radius: u32, style: &S, fill: bool) -> Result<(), Failure> {
         self.inner.draw_circle(center, radius, style, fill)

@@ -2,6 +2,7 @@
 //! the units of the trade, with each band's own contribution.
 
 use crate::error::{Error, ErrorKind, Result};
+use crate::lineshape::Lineshape;
 use crate::model::Model;
 use crate::units::{self, AxisUnit, CdUnit, OrdUnit, SampleContext, UnitError, DIPOLE_CONSTANT, ROTATORY_CONSTANT};
 use num_complex::Complex64;
@@ -83,7 +84,10 @@ pub struct BandContribution {
     pub chiral: f64,
     /// mean_scale * D: k = mean * Im s.
     pub mean: f64,
+    pub lineshape: Lineshape,
     pub shape: Vec<Complex64>,
+    /// Re s~, the mean index shape (see `lineshape`).
+    pub mean_dispersion: Vec<f64>,
 }
 
 #[derive(Debug, Clone, PartialEq)]
@@ -113,6 +117,15 @@ pub struct Spectra {
 
 /// Evaluates the model on a grid of wavenumbers (cm^-1).
 pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
+    evaluate_reusing(model, wavenumber_cm1, None)
+}
+
+/// [`evaluate`], taking a band's shape from `previous` where it holds a band
+/// of the same lineshape on the same grid: after an edit of one band's R (or
+/// of the sample) no shape is computed again, after an edit of its centre
+/// only that band's. The numbers are those of `evaluate`, to the bit.
+pub fn evaluate_reusing(model: &Model, wavenumber_cm1: &[f64], previous: Option<&Spectra>) -> Result<Spectra> {
+    let previous = previous.filter(|p| p.wavenumber_cm1 == wavenumber_cm1);
     if wavenumber_cm1.len() > MAX_GRID_POINTS {
         return Err(Error::new(ErrorKind::TooLarge, "grid", format!("{} points; the limit is {MAX_GRID_POINTS}", wavenumber_cm1.len())));
     }
@@ -141,7 +154,11 @@ pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
         let d = mean_scale * band.dipole_strength_esu2_cm2;
         // The chiral pair takes the odd-type shape s, the mean index the
         // even-type s~ (same Im on nu > 0; see lineshape).
-        let (shape, mean_re) = band.lineshape.values_with_mean(wavenumber_cm1, &ln_nu);
+        let known = previous.and_then(|p| p.bands.iter().find(|b| b.lineshape == band.lineshape));
+        let (shape, mean_re) = match known {
+            Some(b) => (b.shape.clone(), b.mean_dispersion.clone()),
+            None => band.lineshape.values_with_mean(wavenumber_cm1, &ln_nu),
+        };
         // Zipped, not indexed: no bounds check in the one loop every band runs.
         let sums = delta_n.iter_mut().zip(delta_k.iter_mut()).zip(dn_mean.iter_mut().zip(k_mean.iter_mut()));
         for (((dn, dk), (mn, mk)), (s, m)) in sums.zip(shape.iter().zip(&mean_re)) {
@@ -150,7 +167,14 @@ pub fn evaluate(model: &Model, wavenumber_cm1: &[f64]) -> Result<Spectra> {
             *mn += d * m;
             *mk += d * s.im;
         }
-        contributions.push(BandContribution { name: band.name.clone(), chiral: r, mean: d, shape });
+        contributions.push(BandContribution {
+            name: band.name.clone(),
+            chiral: r,
+            mean: d,
+            lineshape: band.lineshape,
+            shape,
+            mean_dispersion: mean_re,
+        });
     }
 
     // Coupled chromophores (coupled): their response joins the bands'.

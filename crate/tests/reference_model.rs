@@ -151,3 +151,26 @@ fn demo_grid_is_the_stated_one() {
         assert!((l * n - 1e7).abs() < 1e-6, "axis columns disagree at {l} nm");
     }
 }
+
+/// The page's redraw takes unchanged band shapes from the last drawing
+/// (`evaluate_reusing`): after an edit of one band's R, of another's centre,
+/// of the sample, and on a new grid, the result is `evaluate`'s to the bit,
+/// and so matches the SciPy reference as `evaluate` does.
+#[test]
+fn reusing_the_last_shapes_gives_evaluates_numbers_exactly() {
+    use chiroptic::spectra::evaluate_reusing;
+    let nu: Vec<f64> = (0..400).map(|i| 1e7 / (190.0 + 0.5 * i as f64)).collect();
+    let doc = chiroptic::Document::from_json(DEMO).unwrap();
+    let before = evaluate(&Model::from_document(&doc).unwrap(), &nu).unwrap();
+    let mut edited = doc.clone();
+    edited.bands[0].rotatory_strength_1e40_cgs *= -2.0;
+    edited.bands[1].center_nm += 3.0;
+    edited.sample.concentration_mol_per_l *= 1.5;
+    let model = Model::from_document(&edited).unwrap();
+    let reused = evaluate_reusing(&model, &nu, Some(&before)).unwrap();
+    assert_eq!(reused, evaluate(&model, &nu).unwrap());
+    assert_eq!(reused.bands[2].shape, before.bands[2].shape, "an untouched band keeps its shape");
+    assert_ne!(reused.bands[1].shape, before.bands[1].shape, "a moved band gets a new shape");
+    let other: Vec<f64> = nu.iter().map(|v| v * 1.001).collect();
+    assert_eq!(evaluate_reusing(&model, &other, Some(&before)).unwrap(), evaluate(&model, &other).unwrap());
+}

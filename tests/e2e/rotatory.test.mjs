@@ -59,10 +59,24 @@ test("the plots follow every keystroke", async () => {
       window.__updates = 0;
       document.addEventListener("chiroptic:updated", () => window.__updates++);
     });
-    await page.keyboard.type("-35");
-    // "-" is not yet a number; "-3" and "-35" each redraw.
+    // At a person's pace (a key every 60 ms, several frames apart): "-" is
+    // not yet a number; "-3" and "-35" each redraw, in the frame after the key.
+    await page.keyboard.type("-35", { delay: 60 });
+    const frames = () => page.evaluate(() => new Promise((ok) => requestAnimationFrame(() => requestAnimationFrame(ok))));
+    await frames();
     const count = await page.evaluate(() => window.__updates);
     assert.equal(count, 2, `updates while typing: ${count}`);
+    // Keys faster than the frames are drawn once per frame, the last one included.
+    await page.keyboard.press("Control+A");
+    await page.evaluate(() => (window.__updates = 0));
+    await page.keyboard.type("-123456");
+    await frames();
+    const fast = await page.evaluate(() => window.__updates);
+    assert.ok(fast >= 1 && fast <= 6, `updates for six fast keys: ${fast}`);
+    assert.equal((await savedModel(page)).bands[1].rotatory_strength_1e40_cgs, -123456);
+    await page.keyboard.press("Control+A");
+    await page.keyboard.type("-35", { delay: 60 });
+    await frames();
     const saved = await savedModel(page);
     assert.equal(saved.bands[1].rotatory_strength_1e40_cgs, -35);
   } finally {

@@ -70,6 +70,7 @@ export function noted({ merge = null } = {}) {
 
 /** Every edit of the document calls this once the document holds the change. */
 export function edit({ merge = null } = {}) {
+  flushEdits();
   editMade();
   // An axis held by a peak drag is let go at the next edit.
   state.options.hold_cd_range = null;
@@ -77,8 +78,37 @@ export function edit({ merge = null } = {}) {
   noted({ merge });
 }
 
+/** A typed or slid change waiting for the next frame: { merge } or null. */
+let waiting = null;
+
+/**
+ * The edit of a keystroke or a slider step: applied once, in the next
+ * animation frame, however many arrive before it, so the input handler
+ * returns at once and the change is on screen in the frame after the input.
+ * Changes of different controls within one frame make one undo step.
+ */
+export function editSoon({ merge = null } = {}) {
+  if (waiting) {
+    if (waiting.merge !== merge) waiting.merge = null;
+    return;
+  }
+  waiting = { merge };
+  requestAnimationFrame(flushEdits);
+  // A hidden page gets no frames: apply the change anyway.
+  setTimeout(flushEdits, 200);
+}
+
+/** Applies a waiting typed change now (before anything that reads the model). */
+export function flushEdits() {
+  if (!waiting) return;
+  const { merge } = waiting;
+  waiting = null;
+  edit({ merge });
+}
+
 /** Puts a whole new document on the page; `record` makes it one undo step. */
 export function loadDocument(doc, { record: asStep = true } = {}) {
+  waiting = null;
   state.doc = doc;
   state.cursorX = null;
   state.options.hold_cd_range = null;

@@ -7,7 +7,7 @@
 import { setIf } from "./dom.js";
 import { parseNumber, fmtInput, tidy, tidyConverted } from "./format.js";
 import { renderErrors } from "./messages.js";
-import { edit } from "./edit.js";
+import { edit, editSoon } from "./edit.js";
 
 /** Every bound field on the page, so displays can follow the document. */
 let fields = [];
@@ -49,7 +49,9 @@ export function bindNumber(spec) {
     if (source !== "slider") syncSlider(field);
     if (spec.changed) return spec.changed(source);
     // Typing and sliding in one box is one undo step; a key step is its own.
-    edit({ merge: source === "key" ? null : input });
+    // Typing and sliding apply in the next frame (coalesced), a key step at once.
+    if (source === "key") edit({ merge: null });
+    else editSoon({ merge: input });
   };
 
   /** Reads the box: applies a number, or names what is wrong with the text. */

@@ -6,7 +6,7 @@
 import { $, isTextEntry } from "./dom.js";
 import { state } from "./state.js";
 import { sayDone } from "./messages.js";
-import { loadDocument } from "./edit.js";
+import { loadDocument, flushEdits } from "./edit.js";
 
 /** Snapshots of the document (JSON); `at` is the one on screen. */
 const edits = { stack: [], at: -1, lastTime: 0, lastMerge: null, held: null };
@@ -63,6 +63,8 @@ function syncButtons() {
 }
 
 function step(by) {
+  // A change typed in this very frame is recorded first, so undo undoes it.
+  flushEdits();
   const j = edits.at + by;
   if (j < 0 || j >= edits.stack.length) return;
   edits.at = j;

@@ -97,7 +97,12 @@ export function showResult(r) {
 }
 
 /** The key beside each plot's title: its summed traces (bands are named by the band list). */
+let shownKeys = null;
 function renderKeys(keys) {
+  // The keys change with the units and the theme, not with most edits.
+  const text = JSON.stringify(keys);
+  if (text === shownKeys) return;
+  shownKeys = text;
   for (const [plot, entries] of Object.entries(keys)) {
     const box = $(`key-${plot}`);
     if (!box) continue;
@@ -110,7 +115,22 @@ function renderKeys(keys) {
   }
 }
 
-const cssVar = (name) => getComputedStyle(document.documentElement).getPropertyValue(name).trim();
+/**
+ * A colour of the page's theme. Reading computed style forces the browser to
+ * recompute styles after each redraw's DOM changes (some 4 ms a redraw), so
+ * the values are read once per theme.
+ */
+const themeColours = { dark: null, values: new Map() };
+function cssVar(name) {
+  if (themeColours.dark !== state.options.dark) {
+    themeColours.dark = state.options.dark;
+    themeColours.values.clear();
+  }
+  if (!themeColours.values.has(name)) {
+    themeColours.values.set(name, getComputedStyle(document.documentElement).getPropertyValue(name).trim());
+  }
+  return themeColours.values.get(name);
+}
 
 /** The overlay: the zoom selection being dragged, the crosshair and its dot on the sum. */
 export function drawCrosshair() {

@@ -10,7 +10,7 @@ use crate::error::{Error, ErrorKind};
 use crate::figures::{self, PlotFrame, PlotRequest};
 use crate::lines::rotation_at_lines;
 use crate::model::Model;
-use crate::spectra::{evaluate, Grid, Spectra};
+use crate::spectra::{evaluate, evaluate_reusing, Grid, Spectra};
 use crate::table::{number, spectra_csv};
 use crate::view::{axis_key, PlotKind, View};
 use plotters::prelude::IntoDrawingArea;
@@ -303,7 +303,8 @@ impl Workbench {
         if let Some((field, quantity, needs)) = view.lacking(&model) {
             return Err(Refusal::needs(needs, field, quantity));
         }
-        let spectra = evaluate(&model, &view.grid()?.wavenumber_cm1)?;
+        // Shapes of bands the edit left alone come from the last drawing.
+        let spectra = evaluate_reusing(&model, &view.grid()?.wavenumber_cm1, self.current.as_ref().map(|c| &c.spectra))?;
         let last_points = std::mem::replace(&mut self.points, crate::overlay::point_sets(&doc, &model, &view)?);
         let lines = rotation_at_lines(&model)?
             .into_iter()

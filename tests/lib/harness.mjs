@@ -68,7 +68,27 @@ export async function openPage(env, { width = 1280, height = 800, colorScheme = 
     const fatal = await page.textContent("#fatal").catch(() => "");
     throw new Error(`the page did not start: ${fatal || "no message"}; console: ${log.errors.join(" | ")}`);
   }
+  looksAfterEachInput(page);
   return { page, context, log };
+}
+
+/**
+ * The page applies typed and dragged changes in the next animation frame;
+ * a person sees the result after that frame, and so do the tests: each key,
+ * fill and mouse release is followed by two frames before the test goes on.
+ */
+function looksAfterEachInput(page) {
+  const settle = () => page.evaluate(() => new Promise((ok) => requestAnimationFrame(() => requestAnimationFrame(ok)))).catch(() => {});
+  const after = (target, name) => {
+    const original = target[name].bind(target);
+    target[name] = async (...args) => {
+      const out = await original(...args);
+      await settle();
+      return out;
+    };
+  };
+  for (const name of ["type", "press", "insertText", "up"]) after(name === "up" ? page.mouse : page.keyboard, name);
+  for (const name of ["fill", "type", "press", "dragAndDrop"]) after(page, name);
 }
 
 /**

@@ -193,6 +193,9 @@ enum Verb {
         /// The computed configuration's name in the verdict (e.g. R or S).
         #[arg(long, default_value = "")]
         label: String,
+        /// Also find the factor (0.5 to 2) on every band's width that maximises the similarity.
+        #[arg(long)]
+        fit_width: bool,
         #[command(flatten)]
         columns: ColumnArgs,
     },
@@ -382,8 +385,8 @@ pub fn run<I: IntoIterator<Item = OsString>>(args: I) -> i32 {
             result
         }
         Verb::Propose { data, add, bands, columns, output } => fitting::propose(&data, &columns.flags(), add.as_deref(), bands, &output),
-        Verb::Compare { doc, data, from, to, label, columns } => {
-            let o = states::CompareOptions { from_nm: from, to_nm: to, label: &label };
+        Verb::Compare { doc, data, from, to, label, fit_width, columns } => {
+            let o = states::CompareOptions { from_nm: from, to_nm: to, label: &label, fit_width };
             states::run_compare(&doc, &data, &columns.flags(), &o, &mut out)
         }
         Verb::Kk { data, columns, add, grid, lines } => {

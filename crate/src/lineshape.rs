@@ -128,6 +128,17 @@ impl Lineshape {
         Lineshape::Voigt { center, delta: gaussian_delta_from_fwhm(gaussian_fwhm), lorentz_fwhm }
     }
 
+    /// The same band with every width times `k` (the similarity's width search).
+    pub fn widened(&self, k: f64) -> Lineshape {
+        match *self {
+            Lineshape::Lorentz { center, gamma } => Lineshape::Lorentz { center, gamma: gamma * k },
+            Lineshape::Gaussian { center, delta } => Lineshape::Gaussian { center, delta: delta * k },
+            Lineshape::Voigt { center, delta, lorentz_fwhm } => {
+                Lineshape::Voigt { center, delta: delta * k, lorentz_fwhm: lorentz_fwhm * k }
+            }
+        }
+    }
+
     /// s(nu) at a real wavenumber nu (cm^-1).
     #[inline]
     pub fn value(&self, nu: f64) -> Complex64 {

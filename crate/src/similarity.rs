@@ -62,3 +62,48 @@ pub fn best_shift(grid: &[f64], computed: &[f64], at: &[f64], measured: &[f64], 
         (best_shift, best)
     }
 }
+
+/// Widths tried by [`best_width`]: factors on the computed bands' widths.
+pub const WIDTH_FACTOR_RANGE: (f64, f64) = (0.5, 2.0);
+
+/// The width factor k in `range` that maximises `score(k)` (the similarity at
+/// its own best shift, for the bands' widths times k): a scan of 13 factors
+/// even in ln k, then golden-section refinement in ln k around the best.
+/// Returns (k, score).
+pub fn best_width(range: (f64, f64), mut score: impl FnMut(f64) -> f64) -> (f64, f64) {
+    let (a, b) = (range.0.ln(), range.1.ln());
+    let steps = 12;
+    let at = |i: usize| a + (b - a) * i as f64 / steps as f64;
+    let (mut best_i, mut best) = (0, f64::NEG_INFINITY);
+    for i in 0..=steps {
+        let v = score(at(i).exp());
+        if v > best {
+            best = v;
+            best_i = i;
+        }
+    }
+    let (mut lo, mut hi) = (at(best_i.saturating_sub(1)), at((best_i + 1).min(steps)));
+    let ratio = (5.0_f64.sqrt() - 1.0) / 2.0;
+    let (mut m1, mut m2) = (hi - ratio * (hi - lo), lo + ratio * (hi - lo));
+    let (mut s1, mut s2) = (score(m1.exp()), score(m2.exp()));
+    // Each step reuses one score: ln k to 1e-4 in 20 steps.
+    for _ in 0..20 {
+        if s1 > s2 {
+            hi = m2;
+            (m2, s2) = (m1, s1);
+            m1 = hi - ratio * (hi - lo);
+            s1 = score(m1.exp());
+        } else {
+            lo = m1;
+            (m1, s1) = (m2, s2);
+            m2 = lo + ratio * (hi - lo);
+            s2 = score(m2.exp());
+        }
+    }
+    let (k, v) = if s1 > s2 { (m1.exp(), s1) } else { (m2.exp(), s2) };
+    if v > best {
+        (k, v)
+    } else {
+        (at(best_i).exp(), best)
+    }
+}

@@ -386,6 +386,27 @@ fn states_and_compare_assign_a_configuration() {
     assert!(text.contains("the computed configuration (R) matches"), "{text}");
     let out = chiroptic(&["compare", doc.to_str().unwrap(), mirrored.to_str().unwrap(), "--label", "R"]);
     assert!(String::from_utf8(out.stdout).unwrap().contains("the mirror image of the computed configuration (R) matches"));
+    // The same list broadened 0.4 eV wide and moved by 0.2 eV: --fit-width
+    // finds the 0.3 eV document's widths times 4/3 and the shift.
+    let wide = dir.join("wide.json");
+    assert!(chiroptic(&["states", &example, "--fwhm-ev", "0.4", "--shift-ev", "0.2", "-o", wide.to_str().unwrap()]).status.success());
+    let csv =
+        String::from_utf8(chiroptic(&["eval", wide.to_str().unwrap(), "--from", "190", "--to", "330", "--step", "0.5"]).stdout).unwrap();
+    let de_wide: String = csv
+        .lines()
+        .map(|l| {
+            let f: Vec<&str> = l.split(',').collect();
+            format!("{},{}\n", f[0], f[12])
+        })
+        .collect();
+    let measured_wide = temp_doc("measured-wide-cd.csv", &de_wide);
+    let out = chiroptic(&["compare", doc.to_str().unwrap(), measured_wide.to_str().unwrap(), "--fit-width"]);
+    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    let text = String::from_utf8(out.stdout).unwrap();
+    let row = |name: &str| -> f64 { text.lines().find(|l| l.starts_with(name)).unwrap().split(',').nth(1).unwrap().parse().unwrap() };
+    assert!((row("best_width_factor") - 4.0 / 3.0).abs() < 0.005, "{text}");
+    assert!((row("best_shift_ev") - 0.2).abs() < 0.01 && row("similarity_best") > 0.999, "{text}");
+    assert!(text.contains("widths ×1.33"), "{text}");
     let bad = temp_doc("bad-states.txt", "conformer A, energy 0.5\nenergy_eV f R\n4.5 0.1 3\n");
     assert_bad_input(
         &chiroptic(&["states", bad.to_str().unwrap(), "-o", doc.to_str().unwrap()]),

@@ -8,7 +8,7 @@ use crate::data::{data_set_doc, data_sets};
 use crate::document::{Document, SampleDoc, SolventDoc, SourceDoc};
 use crate::error::{Error, ErrorKind};
 use crate::import::{ColumnChoice, Measured};
-use crate::similarity::{best_shift, overlap};
+use crate::similarity::{best_shift, best_width, overlap, WIDTH_FACTOR_RANGE};
 use crate::states::{self, table, Broadening, Conformer, Gauge};
 use crate::units::AxisUnit;
 use std::path::{Path, PathBuf};
@@ -106,6 +106,8 @@ pub struct CompareOptions<'a> {
     pub from_nm: Option<f64>,
     pub to_nm: Option<f64>,
     pub label: &'a str,
+    /// Also find the common width factor on the bands that maximises S.
+    pub fit_width: bool,
 }
 
 /// Grid step of the comparison, eV.
@@ -148,14 +150,43 @@ pub fn run_compare(doc_path: &Path, data_path: &Path, flags: &ColumnFlags, o: &C
     // Solvent series outside their range do not matter for De: compare on a constant index.
     let mut plain = model.clone();
     plain.sample.solvent = crate::solvent::Solvent::Constant(1.0);
-    let computed = crate::spectra::evaluate(&plain, &nu).map_err(|e| Failure::input(&doc_path.display().to_string(), e))?.delta_epsilon;
+    let origin_doc = doc_path.display().to_string();
+    // De of the model with every band's width times k, on the grid.
+    let computed_at = |k: f64| -> Result<Vec<f64>, Failure> {
+        let mut m = plain.clone();
+        for b in &mut m.bands {
+            b.lineshape = b.lineshape.widened(k);
+        }
+        Ok(crate::spectra::evaluate(&m, &nu).map_err(|e| Failure::input(&origin_doc, e))?.delta_epsilon)
+    };
+    let computed = computed_at(1.0)?;
     let unshifted: Vec<f64> = at.iter().map(|e| crate::processing::interpolate(&grid, &computed, *e).unwrap_or(0.0)).collect();
     let s0 = overlap(&unshifted, &measured);
-    let (shift, s) = best_shift(&grid, &computed, &at, &measured, MAX_SHIFT_EV, 0.01, 1.0);
-    let (mirror_shift, s_mirror) = best_shift(&grid, &computed, &at, &measured, MAX_SHIFT_EV, 0.01, -1.0);
-    // Each is scored at its own best shift.
-    let computed_text = format!("{s:.2} (shift {shift:+.2} eV)");
-    let mirror_text = format!("{s_mirror:.2} (shift {mirror_shift:+.2} eV)");
+    let best_for = |sign: f64| -> Result<(f64, f64, f64), Failure> {
+        if !o.fit_width {
+            let (shift, s) = best_shift(&grid, &computed, &at, &measured, MAX_SHIFT_EV, 0.01, sign);
+            return Ok((shift, s, 1.0));
+        }
+        let mut failure = None;
+        let (k, _) = best_width(WIDTH_FACTOR_RANGE, |k| match computed_at(k) {
+            Ok(c) => best_shift(&grid, &c, &at, &measured, MAX_SHIFT_EV, 0.01, sign).1,
+            Err(e) => {
+                failure = Some(e);
+                f64::NEG_INFINITY
+            }
+        });
+        if let Some(e) = failure {
+            return Err(e);
+        }
+        let (shift, s) = best_shift(&grid, &computed_at(k)?, &at, &measured, MAX_SHIFT_EV, 0.01, sign);
+        Ok((shift, s, k))
+    };
+    let (shift, s, k) = best_for(1.0)?;
+    let (mirror_shift, s_mirror, k_mirror) = best_for(-1.0)?;
+    // Each is scored at its own best shift (and width).
+    let width_text = |k: f64| if o.fit_width { format!(", widths ×{k:.2}") } else { String::new() };
+    let computed_text = format!("{s:.2} (shift {shift:+.2} eV{})", width_text(k));
+    let mirror_text = format!("{s_mirror:.2} (shift {mirror_shift:+.2} eV{})", width_text(k_mirror));
     let label = if o.label.is_empty() { String::new() } else { format!(" ({})", o.label) };
     let verdict = if s.max(s_mirror) < 0.3 {
         format!("neither the computed configuration{label}, {computed_text}, nor its mirror image, {mirror_text}, matches well")
@@ -164,8 +195,9 @@ pub fn run_compare(doc_path: &Path, data_path: &Path, flags: &ColumnFlags, o: &C
     } else {
         format!("the mirror image of the computed configuration{label} matches: {mirror_text} against {computed_text} for the computed one")
     };
+    let widths = if o.fit_width { format!("best_width_factor,{k},{k_mirror}\n") } else { String::new() };
     let text = format!(
-        "quantity,computed,mirror\nsimilarity_unshifted,{},{}\nsimilarity_best,{},{}\nbest_shift_ev,{},{}\n# {verdict} (range {:.3}-{:.3} eV; S = ∫ a b dE / sqrt(∫ a² dE ∫ b² dE))\n",
+        "quantity,computed,mirror\nsimilarity_unshifted,{},{}\nsimilarity_best,{},{}\nbest_shift_ev,{},{}\n{widths}# {verdict} (range {:.3}-{:.3} eV; S = ∫ a b dE / sqrt(∫ a² dE ∫ b² dE))\n",
         s0, -s0, s, s_mirror, shift, mirror_shift, e_lo, e_hi
     );
     out.extend_from_slice(text.as_bytes());

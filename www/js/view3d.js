@@ -1,6 +1,6 @@
 // The 3-D view of the shown coupled system on a 2-D canvas: an orthographic
 // projection with z up, chromophores as dots, each transition dipole as an
-// arrow through its chromophore, the x, y, z axes through the origin. Drag
+// arrow through its chromophore, the x, y, z directions from the centroid. Drag
 // (or the arrow keys) turns it; how it is turned is page state. It is drawn
 // only when something changed, once per animation frame.
 
@@ -72,13 +72,22 @@ function draw() {
 
   const g = geometry();
   const items = (g?.chromophores ?? []).map((c, j) => ({ ...c, name: system.chromophores[j]?.name || String(j + 1) }));
-  // Scale: every chromophore, its arrows and the axes' ends fit the canvas.
-  const spread = Math.max(1, ...items.map((c) => Math.hypot(...c.position)));
-  const half = Math.max(1.5, 0.45 * spread);
+  // Centred on the chromophores' centroid and scaled so that all of them,
+  // their arrows and the axes fit; arrows scale with the closest pair, so a
+  // long stack is not drawn as a bundle of overlapping arrows.
+  const centre = [0, 1, 2].map((k) => items.reduce((a, c) => a + c.position[k], 0) / Math.max(1, items.length));
+  const spread = Math.max(1, ...items.map((c) => Math.hypot(...c.position.map((x, k) => x - centre[k]))));
+  let closest = Infinity;
+  for (let a = 0; a < items.length; a++)
+    for (let b = a + 1; b < items.length; b++)
+      closest = Math.min(closest, Math.hypot(...items[a].position.map((x, k) => x - items[b].position[k])));
+  const half = Math.max(1.0, Math.min(0.45 * spread, Number.isFinite(closest) ? 0.4 * closest : 0.45 * spread));
   const reach = spread + half;
   const scale = (Math.min(w, h) / 2 - 16) / reach;
+  // An arrow at least 12 px each side of its dot, so that it shows beside it.
+  const arrow = Math.max(half, 12 / scale);
   const screen = (p) => {
-    const [u, v, d] = turn(p);
+    const [u, v, d] = turn(p.map((x, k) => x - centre[k]));
     return { x: w / 2 + u * scale, y: h / 2 - v * scale, d };
   };
 
@@ -87,9 +96,9 @@ function draw() {
   ctx.strokeStyle = muted;
   ctx.fillStyle = muted;
   for (const [k, name] of ["x", "y", "z"].entries()) {
-    const end = [0, 0, 0];
-    end[k] = reach * 0.95;
-    const o = screen([0, 0, 0]);
+    const end = [...centre];
+    end[k] += reach * 0.95;
+    const o = screen(centre);
     const e = screen(end);
     ctx.setLineDash([3, 3]);
     line(ctx, [o.x, o.y], [e.x, e.y]);
@@ -99,7 +108,7 @@ function draw() {
   }
 
   // Far things first, so that near ones are drawn over them; far ones paler.
-  const depth = items.map((c) => turn(c.position)[2]);
+  const depth = items.map((c) => turn(c.position.map((x, k) => x - centre[k]))[2]);
   const span = Math.max(1e-9, Math.max(...depth) - Math.min(...depth));
   const order = items.map((_, j) => j).sort((a, b) => depth[b] - depth[a]);
   for (const j of order) {
@@ -111,8 +120,8 @@ function draw() {
     ctx.lineWidth = 2.5;
     for (const e of c.transitions) {
       if (!e) continue;
-      const a = screen(c.position.map((x, k) => x - half * e[k]));
-      const b = screen(c.position.map((x, k) => x + half * e[k]));
+      const a = screen(c.position.map((x, k) => x - arrow * e[k]));
+      const b = screen(c.position.map((x, k) => x + arrow * e[k]));
       line(ctx, [a.x, a.y], [b.x, b.y]);
       head(ctx, [a.x, a.y], [b.x, b.y], 9);
     }
@@ -120,7 +129,8 @@ function draw() {
     ctx.beginPath();
     ctx.arc(p.x, p.y, 4.5, 0, 2 * Math.PI);
     ctx.fill();
-    ctx.fillText(c.name, p.x + 7, p.y + 13);
+    // Names only where they can be read.
+    if (items.length <= 8) ctx.fillText(c.name, p.x + 7, p.y + 13);
   }
   ctx.globalAlpha = 1;
 }

@@ -1,4 +1,5 @@
-// The bridge to the wasm core: the only module that calls it. Every call is
+// The bridge to the wasm core: the only module of the page that calls it
+// (the fit worker, fitworker.js, is the bridge inside its worker). Every call is
 // guarded (a trap inside the module means it can no longer be used, and the
 // page says so once), conversions come back as numbers or throw an Error
 // whose message the page shows, and everything else comes back as the
@@ -12,6 +13,9 @@ let workbench = null;
 /** Names, keys, caps and defaults, as the core knows them (see `catalog` in wasm.rs). */
 export let catalog = null;
 
+/** The compiled module: instantiated here, and posted to the fit worker (a Module is structured-cloneable). */
+let compiled = null;
+
 /** The wasm module's bytes when the single offline file carries them inline. */
 function inlinedWasm() {
   const holder = document.getElementById("chiroptic-wasm");
@@ -19,7 +23,7 @@ function inlinedWasm() {
   const bin = atob(holder.textContent.trim());
   const bytes = new Uint8Array(bin.length);
   for (let i = 0; i < bin.length; i++) bytes[i] = bin.charCodeAt(i);
-  return { module_or_path: bytes };
+  return bytes;
 }
 
 /**
@@ -33,9 +37,20 @@ function strokePolyline(context, xy) {
   context.stroke();
 }
 
+/** Compiles the module once: from the inlined bytes (single file) or from the site. */
+async function compileCore() {
+  const bytes = inlinedWasm();
+  if (bytes) return WebAssembly.compile(bytes);
+  return WebAssembly.compileStreaming(fetch(new URL("../pkg/chiroptic_bg.wasm", import.meta.url)));
+}
+
+/** The compiled core for a worker, or null before start. */
+export const compiledCore = () => compiled;
+
 /** Loads the module; `canvasOf(key)` gives the canvas of each plot the catalog names. */
 export async function start(canvasOf) {
-  await init(inlinedWasm());
+  compiled = await compileCore();
+  await init({ module_or_path: compiled });
   const c = wasm.catalog();
   if (!c.ok) throw new Error(`the core's catalog does not load: ${c.error.message}`);
   catalog = c;
@@ -175,3 +190,8 @@ export const coupletSystem = (distanceAngstrom, twistDeg, t) =>
   reply(() => wasm.couplet_system(distanceAngstrom, twistDeg, t.shape, t.center_nm, t.fwhm_cm1, t.lorentz_fwhm_cm1, t.dipole_strength_debye2));
 /** System `i` of a document: directions as vectors and angles, a pair's distance and twist: `{ ok, chromophores, pair }`. */
 export const systemGeometry = (doc, i) => reply(() => wasm.system_geometry(doc, i));
+
+// ---------------------------------------------------------------- fitting (the fit itself runs in fitworker.js)
+
+/** The fit panel's fields, defaults and caps: `{ ok, fields, default_free, default_starts, max_starts, ... }`. */
+export const fitCatalog = () => reply(() => wasm.fit_catalog());

@@ -14,6 +14,7 @@ import { showResult, cssFrame, sizeCanvases, layoutPlots, drawCrosshair } from "
 import { renderBands } from "./bands.js";
 import { renderSolvent } from "./sample.js";
 import { renderCoupled } from "./coupled.js";
+import { renderFit, stopFitForEdit } from "./fit.js";
 
 /** Hands the document to the core; redraws on success, marks the field at fault otherwise. */
 export function refresh() {
@@ -44,6 +45,21 @@ export function refresh() {
   return result.ok;
 }
 
+/**
+ * Draws a document that is not the user's (a running fit's values): the
+ * plots and lamp lines follow, while `state.doc`, the last good model and
+ * the history stay as they are. `refresh()` puts the user's model back.
+ */
+export function preview(doc) {
+  const result = core.update(doc, state.options);
+  if (result.ok) {
+    result.frames = result.frames.map(cssFrame);
+    state.drawn = result;
+    showResult(result);
+  }
+  return result.ok;
+}
+
 /** Redraws the last good model with new page options (theme, highlight, size). */
 export function redraw() {
   if (!state.drawn) return refresh();
@@ -71,6 +87,7 @@ export function noted({ merge = null } = {}) {
 /** Every edit of the document calls this once the document holds the change. */
 export function edit({ merge = null } = {}) {
   flushEdits();
+  stopFitForEdit();
   editMade();
   // An axis held by a peak drag is let go at the next edit.
   state.options.hold_cd_range = null;
@@ -109,6 +126,7 @@ export function flushEdits() {
 /** Puts a whole new document on the page; `record` makes it one undo step. */
 export function loadDocument(doc, { record: asStep = true } = {}) {
   waiting = null;
+  stopFitForEdit();
   state.doc = doc;
   state.cursorX = null;
   state.options.hold_cd_range = null;
@@ -120,6 +138,7 @@ export function loadDocument(doc, { record: asStep = true } = {}) {
   renderBands();
   renderSolvent();
   renderCoupled();
+  renderFit();
   sizeCanvases();
   refresh();
   if (asStep) noted();

@@ -21,6 +21,7 @@ import { bindShare } from "./share.js";
 import { startWiki } from "./wiki.js";
 import { bindColour } from "./colour.js";
 import { bindCoupled } from "./coupled.js";
+import { bindFit } from "./fit.js";
 import { bindTheme, bindMenus, renderConventions } from "./chrome.js";
 
 async function main() {
@@ -47,6 +48,7 @@ async function main() {
   bindSample();
   bindBandTable();
   bindCoupled();
+  bindFit();
   bindPlots();
   bindFiles();
   bindData();

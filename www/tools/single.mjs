@@ -4,8 +4,9 @@
 // The page's module graph (www/js/ and the wasm-bindgen glue in dist/pkg/)
 // is bundled into one inline module by esbuild (pinned in tests/package.json),
 // the stylesheet is inlined, the wasm bytes ride along as base64 (core.js
-// hands them to the glue), and a Content-Security-Policy names the inline
-// script by its hash and allows no fetch at all.
+// hands them to the glue), the fit worker rides as inert text, and a
+// Content-Security-Policy names the inline script by its hash, lets workers
+// start only from blob: URLs and allows no fetch at all.
 import { readFileSync, writeFileSync } from "node:fs";
 import { createHash } from "node:crypto";
 import { createRequire } from "node:module";
@@ -45,12 +46,26 @@ const bundled = await esbuild.build({
   logLevel: "error",
 });
 const app = inlineSafe(bundled.outputFiles[0].text, "script");
+// The fit worker (www/js/fitworker.js with the glue) as its own bundle: it
+// rides inline as inert text and runs from a blob: URL (fitrun.js); the
+// compiled wasm module is posted to it, so it fetches nothing.
+const worker = await esbuild.build({
+  entryPoints: [join(dist, "js", "fitworker.js")],
+  bundle: true,
+  format: "esm",
+  target: "es2022",
+  write: false,
+  legalComments: "none",
+  logLevel: "error",
+});
+const workerCode = inlineSafe(worker.outputFiles[0].text, "script");
 const css = inlineSafe(read("style.css").toString("utf8"), "style");
 const wasm = read("pkg/chiroptic_bg.wasm").toString("base64");
 
 const policy = [
   "default-src 'none'",
   `script-src ${sha256(app)} 'wasm-unsafe-eval'`,
+  "worker-src blob:",
   "style-src 'unsafe-inline'",
   "img-src data: blob:",
   "connect-src 'none'",
@@ -67,6 +82,10 @@ const swap = (pattern, replacement, what) => {
 swap(/<meta http-equiv="Content-Security-Policy" content="[^"]*">/, `<meta http-equiv="Content-Security-Policy" content="${policy}">`, "CSP meta tag");
 swap(/<link rel="stylesheet" href="style.css">/, `<style>\n${css}</style>`, "stylesheet link");
 swap(/<script type="module" src="js\/main.js"><\/script>/, `<script type="module">${app}</script>`, "module script");
-swap(/<\/body>/, `<script type="application/octet-stream" id="chiroptic-wasm">${wasm}</script>\n</body>`, "</body>");
+swap(
+  /<\/body>/,
+  `<script type="application/octet-stream" id="chiroptic-wasm">${wasm}</script>\n<script type="text/plain" id="chiroptic-fitworker">${workerCode}</script>\n</body>`,
+  "</body>",
+);
 writeFileSync(join(dist, "chiroptic.html"), html);
 console.error(`single: ${join(dist, "chiroptic.html")} (${html.length} bytes)`);

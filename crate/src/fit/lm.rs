@@ -66,9 +66,9 @@ pub const RELATIVE_TOLERANCE: f64 = 1e-10;
 /// to the Gauss-Newton step.
 const LIGHT_DAMPING: f64 = 1e-2;
 
-/// Minimises sum r^2 from u0. `progress(iteration, chi_square)` is called
-/// after every accepted step; returning false cancels.
-pub fn minimise(problem: &dyn Problem, u0: &[f64], max_iterations: usize, progress: &mut dyn FnMut(usize, f64) -> bool) -> Outcome {
+/// Minimises sum r^2 from u0. `progress(iteration, chi_square, u)` is called
+/// after every accepted step (u: the variables reached); returning false cancels.
+pub fn minimise(problem: &dyn Problem, u0: &[f64], max_iterations: usize, progress: &mut dyn FnMut(usize, f64, &[f64]) -> bool) -> Outcome {
     let n = u0.len();
     let mut u = u0.to_vec();
     let (mut r, mut jac) = (Vec::new(), Vec::new());
@@ -137,7 +137,7 @@ pub fn minimise(problem: &dyn Problem, u0: &[f64], max_iterations: usize, progre
                 }
                 grow = 2.0;
                 accepted = true;
-                if !progress(iteration, chi) {
+                if !progress(iteration, chi, &u) {
                     return Outcome { u, chi_square: chi, iterations: iteration, stop: Stop::Cancelled };
                 }
                 if (old - chi) <= RELATIVE_TOLERANCE * old {

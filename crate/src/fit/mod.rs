@@ -429,7 +429,33 @@ fn geometry_mode(p: &FitParameterDoc, g: GeometryField, at: &str) -> Result<Mode
 }
 
 /// Fits the document's bands to its data sets and readings.
+/// `progress(start, iteration, chi_square)` after every accepted step; false cancels.
 pub fn fit(doc: &Document, model: &Model, sets: &[DataSet], progress: &mut dyn FnMut(usize, usize, f64) -> bool) -> Result<Fitted> {
+    fit_watched(doc, model, sets, &mut |step: &Step| progress(step.start, step.iteration, step.chi_square))
+}
+
+/// Where a running fit is: after an accepted step of one start.
+pub struct Step<'a> {
+    pub start: usize,
+    pub iteration: usize,
+    pub chi_square: f64,
+    doc: &'a Document,
+    problem: &'a FitProblem,
+    u: &'a [f64],
+}
+
+impl Step<'_> {
+    /// The document with the values this step reached (built only when asked
+    /// for: the page shows the curves a few times a second, not every step).
+    pub fn document(&self) -> Document {
+        let mut doc = self.doc.clone();
+        write_back(&mut doc, self.problem, &self.problem.layout.values(self.u));
+        doc
+    }
+}
+
+/// `fit` with a progress hook that can also see the values reached ([`Step`]).
+pub fn fit_watched(doc: &Document, model: &Model, sets: &[DataSet], progress: &mut dyn FnMut(&Step) -> bool) -> Result<Fitted> {
     let settings = doc.fit.clone().unwrap_or_default();
     let starts = settings.starts.unwrap_or(DEFAULT_STARTS);
     let max_iterations = settings.max_iterations.unwrap_or(DEFAULT_MAX_ITERATIONS);
@@ -482,7 +508,13 @@ pub fn fit(doc: &Document, model: &Model, sets: &[DataSet], progress: &mut dyn F
         return Err(Error::new(ErrorKind::OutOfRange, "fit", format!("{} points cannot determine {nfree} free parameters", problem.len())));
     }
 
-    let outcome = multistart(&problem, starts as usize, max_iterations as usize, settings.seed.unwrap_or(1), progress);
+    let outcome = multistart(
+        &problem,
+        starts as usize,
+        max_iterations as usize,
+        settings.seed.unwrap_or(1),
+        &mut |start, iteration, chi_square, u| progress(&Step { start, iteration, chi_square, doc, problem: &problem, u }),
+    );
     let best = outcome.best.clone();
     if !best.chi_square.is_finite() {
         return Err(Error::new(ErrorKind::OutOfRange, "fit", "the fit did not converge: chi-square is not finite"));
@@ -555,7 +587,7 @@ pub fn multistart(
     starts: usize,
     max_iterations: usize,
     seed: u64,
-    progress: &mut dyn FnMut(usize, usize, f64) -> bool,
+    progress: &mut dyn FnMut(usize, usize, f64, &[f64]) -> bool,
 ) -> Starts {
     let first = problem.layout.start();
     let mut rng = SmallRng::seed_from_u64(seed);
@@ -563,7 +595,7 @@ pub fn multistart(
     for _ in 1..starts {
         points.push(perturbed(problem, &mut rng));
     }
-    let run = |u0: &Vec<f64>, report: &mut dyn FnMut(usize, f64) -> bool| lm::minimise(problem, u0, max_iterations, report);
+    let run = |u0: &Vec<f64>, report: &mut dyn FnMut(usize, f64, &[f64]) -> bool| lm::minimise(problem, u0, max_iterations, report);
     let mut all: Vec<lm::Outcome> = Vec::with_capacity(points.len());
     #[cfg(not(target_arch = "wasm32"))]
     {
@@ -571,14 +603,14 @@ pub fn multistart(
         // beside it on the other core.
         let (head, tail) = points.split_at(1);
         std::thread::scope(|scope| {
-            let helper = scope.spawn(|| tail.iter().map(|u0| run(u0, &mut |_, _| true)).collect::<Vec<_>>());
-            all.push(run(&head[0], &mut |i, chi| progress(0, i, chi)));
+            let helper = scope.spawn(|| tail.iter().map(|u0| run(u0, &mut |_, _, _| true)).collect::<Vec<_>>());
+            all.push(run(&head[0], &mut |i, chi, u| progress(0, i, chi, u)));
             all.extend(helper.join().unwrap_or_default());
         });
     }
     #[cfg(target_arch = "wasm32")]
     for (k, u0) in points.iter().enumerate() {
-        all.push(run(u0, &mut |i, chi| progress(k, i, chi)));
+        all.push(run(u0, &mut |i, chi, u| progress(k, i, chi, u)));
     }
     let best = all
         .iter()

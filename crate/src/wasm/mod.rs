@@ -7,13 +7,15 @@
 //! Parts: `catalog` (names, keys, caps and defaults the page builds its
 //! controls from), `workbench` (the four canvases and the last good model),
 //! `canvas` (the fast plotters canvas backend), `reply` (the reply shape),
-//! `coupled` (the coupled-chromophore panel: couplet helper, geometry).
+//! `coupled` (the coupled-chromophore panel: couplet helper, geometry),
+//! `fit` (band models fitted to the data, run in the page's fit worker).
 
 mod canvas;
 mod catalog;
 mod colour;
 mod coupled;
 mod data;
+mod fit;
 mod reply;
 mod workbench;
 

@@ -1,0 +1,130 @@
+// The fit panel: the Fit and Cancel buttons, the live readout (start,
+// iteration, χ²), the curves following the fit, and what happens after:
+// the fitted document replaces the model as one undo step, its report is
+// shown (fitreport.js), and the fit joins the session's comparison. The fit
+// itself runs in a worker (fitrun.js); an edit of the model during a fit
+// stops it, since its start is gone.
+
+import { $ } from "./dom.js";
+import { state } from "./state.js";
+import { fmtText } from "./format.js";
+import { setStatus } from "./messages.js";
+import { loadDocument, refresh, preview } from "./edit.js";
+import { runFit, cancelFit, fitRunning } from "./fitrun.js";
+import { bindFitSettings, renderFitSettings, renderFitTable, fitCatalog } from "./fitparams.js";
+import { renderReport, addComparison, bindReport } from "./fitreport.js";
+
+/** The fit in flight: the document it started from, the latest progress, the readout's frame. */
+const run = { start: null, latest: null, frame: 0, starts: 0 };
+
+function setRunning(on) {
+  $("fit-run").hidden = on;
+  $("fit-cancel").hidden = !on;
+  $("fit-settings").disabled = on;
+  $("fitting").classList.toggle("running", on);
+}
+
+function say(text) {
+  $("fit-progress").textContent = text;
+}
+
+function problem(text) {
+  $("fit-problem").textContent = text ?? "";
+  $("fit-problem").hidden = !text;
+}
+
+/** The readout, at most once a frame however fast the worker reports. */
+function showProgress() {
+  run.frame = 0;
+  const m = run.latest;
+  if (!m || !fitRunning()) return;
+  say(`Fitting: start ${m.start + 1} of ${run.starts} · iteration ${m.iteration} · χ² ${fmtText(m.chi_square, 6)}`);
+}
+
+/** The fit's name for a field of the core's error, in the panel's words. */
+function refusal(err) {
+  const where = err.field && !["fit", "data"].includes(err.field) ? ` (${err.field})` : "";
+  return `Cannot fit${where}: ${err.message}. The model is unchanged.`;
+}
+
+function startFit() {
+  if (fitRunning()) return;
+  problem(null);
+  const start = structuredClone(state.doc);
+  Object.assign(run, { start, latest: null, starts: start.fit?.starts ?? fitCatalog.default_starts });
+  setRunning(true);
+  say("Fitting: starting…");
+  runFit(start, {
+    onProgress(m) {
+      run.latest = m;
+      if (!run.frame) run.frame = requestAnimationFrame(showProgress);
+    },
+    onSnapshot(s) {
+      const now = structuredClone(run.start);
+      now.bands = s.bands;
+      if (now.systems) now.systems = s.systems;
+      preview(now);
+    },
+    onDone(reply, ms) {
+      setRunning(false);
+      if (!reply.ok) {
+        refresh();
+        say("");
+        problem(refusal(reply.error));
+        return;
+      }
+      const r = reply.report;
+      addComparison(reply.document, r);
+      loadDocument(reply.document);
+      say(`Fitted in ${(ms / 1000).toFixed(2)} s: χ² ${fmtText(r.chi_square, 6)}, ${r.starts_at_best} of ${r.starts} starts reached the best minimum.`);
+      setStatus("Fitted: one undo step takes the fit back");
+    },
+    onFailed(message) {
+      setRunning(false);
+      refresh();
+      say("");
+      problem(`The fit stopped: ${message}. The model is unchanged; the next fit starts a fresh worker.`);
+    },
+  });
+}
+
+/** Cancel: the worker goes, the start model is drawn again. */
+function stopFit(why) {
+  if (!cancelFit()) return;
+  if (run.frame) cancelAnimationFrame(run.frame);
+  run.frame = 0;
+  setRunning(false);
+  say(why);
+}
+
+/** An edit of the model while a fit runs (edit.js calls this): the fit's start is gone. */
+export function stopFitForEdit() {
+  if (fitRunning()) stopFit("Fit stopped: the model was edited while it ran.");
+}
+
+/** Shows the document's fit settings and report (after a new document or an undo). */
+export function renderFit() {
+  renderFitSettings();
+  renderReport(state.doc.fit?.report ?? null);
+}
+
+/** Bands' names and shapes, which the per-band table is built from. */
+const tableKey = () => JSON.stringify([state.doc?.bands.map((b) => [b.name, b.shape]), state.doc?.fit?.free, state.doc?.fit?.parameters]);
+
+export function bindFit() {
+  bindFitSettings();
+  bindReport();
+  $("fit-run").addEventListener("click", startFit);
+  $("fit-cancel").addEventListener("click", () => {
+    stopFit("Fit cancelled: the model is as it was.");
+    refresh();
+  });
+  let key = "";
+  // A band added, renamed or reshaped in the band list changes the per-band table.
+  document.addEventListener("chiroptic:updated", () => {
+    const now = tableKey();
+    if (now === key || $("fit-rows").contains(document.activeElement)) return;
+    key = now;
+    renderFitTable();
+  });
+}

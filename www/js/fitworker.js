@@ -1,0 +1,39 @@
+// The fit worker: the wasm core's bridge inside a module worker, so that a
+// fit (a synchronous loop in the core) never blocks the page. The page posts
+// the compiled module once ({ module }), then a fit ({ doc, snapshotMs }).
+// Messages back: progress (start, iteration, χ² after each accepted step),
+// snapshot (the bands reached, at most every snapshotMs), done (the core's
+// reply and the time taken) or failed (the core trapped; this worker is spent).
+// Cancel is the page terminating the worker: the loop cannot read messages.
+
+import init, { fit_document } from "../pkg/chiroptic.js";
+
+let ready = null;
+
+self.onmessage = async (event) => {
+  const { module, doc, snapshotMs = 150 } = event.data;
+  if (module) ready = init({ module_or_path: module });
+  if (!doc) return;
+  try {
+    await ready;
+  } catch (e) {
+    self.postMessage({ type: "failed", message: `the core did not load in the fit worker: ${e?.message ?? e}` });
+    return;
+  }
+  let last = -Infinity;
+  const progress = (start, iteration, chi_square) => {
+    self.postMessage({ type: "progress", start, iteration, chi_square });
+    const now = performance.now();
+    if (now - last < snapshotMs) return false;
+    last = now;
+    return true;
+  };
+  const snapshot = (s) => self.postMessage({ type: "snapshot", bands: s.bands, systems: s.systems });
+  const t0 = performance.now();
+  try {
+    const reply = fit_document(doc, progress, snapshot);
+    self.postMessage({ type: "done", reply, ms: performance.now() - t0 });
+  } catch (e) {
+    self.postMessage({ type: "failed", message: `the calculation core stopped on an internal error (${e?.message ?? e})` });
+  }
+};

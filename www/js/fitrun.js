@@ -9,14 +9,15 @@ let worker = null;
 /** The fit in flight: its handlers, or null. */
 let running = null;
 
-function workerUrl() {
+/** A module worker from the site; in the single file a classic one from the inline script (file:// pages get no module workers from blob: URLs). */
+function newWorker() {
   const inline = document.getElementById("chiroptic-fitworker");
-  if (inline) return URL.createObjectURL(new Blob([inline.textContent], { type: "text/javascript" }));
-  return new URL("./fitworker.js", import.meta.url);
+  if (inline) return new Worker(URL.createObjectURL(new Blob([inline.textContent], { type: "text/javascript" })));
+  return new Worker(new URL("./fitworker.js", import.meta.url), { type: "module" });
 }
 
 function spawn() {
-  const w = new Worker(workerUrl(), { type: "module" });
+  const w = newWorker();
   w.postMessage({ module: core.compiledCore() });
   w.onmessage = (event) => {
     const m = event.data;

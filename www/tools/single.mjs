@@ -46,13 +46,14 @@ const bundled = await esbuild.build({
   logLevel: "error",
 });
 const app = inlineSafe(bundled.outputFiles[0].text, "script");
-// The fit worker (www/js/fitworker.js with the glue) as its own bundle: it
+// The fit worker (www/js/fitworker.js with the glue) as its own script: it
 // rides inline as inert text and runs from a blob: URL (fitrun.js); the
 // compiled wasm module is posted to it, so it fetches nothing.
 const worker = await esbuild.build({
   entryPoints: [join(dist, "js", "fitworker.js")],
   bundle: true,
-  format: "esm",
+  // A classic worker: Chromium refuses module workers from a file:// page's blob: URLs.
+  format: "iife",
   target: "es2022",
   write: false,
   legalComments: "none",

@@ -76,6 +76,7 @@ function startFit() {
       const r = reply.report;
       addComparison(reply.document, r);
       loadDocument(reply.document);
+      $("fit-progress").dataset.ms = String(ms);
       say(`Fitted in ${(ms / 1000).toFixed(2)} s: χ² ${fmtText(r.chi_square, 6)}, ${r.starts_at_best} of ${r.starts} starts reached the best minimum.`);
       setStatus("Fitted: one undo step takes the fit back");
     },

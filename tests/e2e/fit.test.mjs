@@ -271,3 +271,21 @@ test("the single offline file fits through its inline worker with no request mad
     await context.close();
   }
 });
+
+test("an edit of the model while a fit runs stops the fit and keeps the edit", async () => {
+  const { page } = await openPage(env);
+  await loadProblem(page, join(FIT, "bench_start.json"), [join(FIT, "bench_cd.csv"), join(FIT, "bench_ord.csv")]);
+  await typeInto(page, "#fit-starts", "200");
+  await watchReadout(page);
+  await page.click("#fit-run");
+  await page.waitForFunction(() => window.__readouts.some((t) => /iteration/.test(t)), null, { timeout: 30000 });
+  await typeInto(page, "#band-0-width", "3000");
+  await page.waitForSelector("#fit-run:not([hidden])");
+  assert.match(await page.textContent("#fit-progress"), /Fit stopped: the model was edited while it ran/);
+  const doc = await documentOf(page);
+  assert.equal(doc.bands[0].fwhm_cm1, 3000, "the typed width is the model's");
+  assert.equal(doc.fit.report, undefined, "no fit result arrived");
+  // Source: fixtures/fit/bench_start.json, the other bands as they were.
+  const start = JSON.parse(readFileSync(join(FIT, "bench_start.json"), "utf8"));
+  assert.deepEqual(doc.bands.slice(1), start.bands.slice(1));
+});

@@ -195,3 +195,5 @@ export const systemGeometry = (doc, i) => reply(() => wasm.system_geometry(doc, 
 
 /** The fit panel's fields, defaults and caps: `{ ok, fields, default_free, default_starts, max_starts, ... }`. */
 export const fitCatalog = () => reply(() => wasm.fit_catalog());
+/** |r| from which the core names a pair strongly correlated. */
+export const fitStrongCorrelation = () => orElse(() => wasm.fit_catalog(), "strong_correlation", null);

@@ -38,7 +38,10 @@ function showProgress() {
   run.frame = 0;
   const m = run.latest;
   if (!m || !fitRunning()) return;
-  say(`Fitting: start ${m.start + 1} of ${run.starts} · iteration ${m.iteration} · χ² ${fmtText(m.chi_square, 6)}`);
+  const text = `Fitting: start ${m.start + 1} of ${run.starts} · iteration ${m.iteration} · χ² ${fmtText(m.chi_square, 6)}`;
+  say(text);
+  // Also beside the plots, which the panel may be scrolled away from.
+  setStatus(text);
 }
 
 /** The fit's name for a field of the core's error, in the panel's words. */
@@ -96,6 +99,7 @@ function stopFit(why) {
   run.frame = 0;
   setRunning(false);
   say(why);
+  setStatus(why);
 }
 
 /** An edit of the model while a fit runs (edit.js calls this): the fit's start is gone. */

@@ -68,7 +68,12 @@ function chooseMode(band, i, field, mode) {
   const others = state.doc.bands.filter((b, j) => j !== i && b.name);
   if (mode === "free") setEntry(name, field.key, isDefault ? null : {});
   else if (mode === "held") setEntry(name, field.key, isDefault ? { fixed: true } : null);
-  else if (mode === "bounded") setEntry(name, field.key, { min: band[field.key], max: band[field.key] });
+  else if (mode === "bounded") {
+    // A first span of ±10 % around the value, to be typed over.
+    const v = band[field.key] ?? 0;
+    const round = (x) => Number(x.toPrecision(4));
+    setEntry(name, field.key, { min: round(v - 0.1 * Math.abs(v)), max: round(v + 0.1 * Math.abs(v)) });
+  }
   else if (mode === "tied") {
     if (!others.length) return;
     setEntry(name, field.key, { link: { to: `${others[0].name}.${field.key}`, factor: 1, offset: 0 } });

@@ -74,7 +74,7 @@ function estimatesTable(r) {
     const d = describe(p.name);
     const how = p.mode === "free" ? (p.at_bound ? "free, at a bound" : "free") : p.mode;
     const extra = d.what === "centre" && d.unit === "cm⁻¹" ? el("span", { className: "unit", textContent: ` (${centreNm(p)})` }) : "";
-    const tr = el("tr", {}, el("th", { scope: "row", textContent: d.owner }), el("td", { textContent: d.what }), el("td", { className: "num-text" }, withError(p.value, p.standard_error), extra), el("td", { textContent: d.unit }), el("td", { textContent: how }));
+    const tr = el("tr", {}, el("th", { scope: "row", textContent: d.owner }), el("td", { className: "text", textContent: d.what }), el("td", { className: "num-text" }, withError(p.value, p.standard_error), extra), el("td", { className: "text", textContent: d.unit }), el("td", { className: "text", textContent: how }));
     tr.dataset.parameter = p.name;
     tr.dataset.value = String(p.value);
     if (p.standard_error !== undefined) tr.dataset.se = String(p.standard_error);
@@ -85,7 +85,8 @@ function estimatesTable(r) {
 }
 
 /** The report's parts, shared by the panel and the printable report. */
-function reportParts(r) {
+function reportParts(report) {
+  const r = { ...report, strong_limit: core.fitStrongCorrelation() };
   const parts = [];
   const dl = el("dl", { className: "fit-summary", id: "fit-summary" });
   for (const [k, v] of summaryItems(r)) dl.append(el("dt", { textContent: k }), el("dd", { textContent: v }));
@@ -98,7 +99,12 @@ function reportParts(r) {
     const [a, b] = [describe(c.a), describe(c.b)];
     return el("li", { textContent: `${a.owner} ${a.what} and ${b.owner} ${b.what}: r = ${fmtText(c.r, 3)}` });
   });
-  parts.push(strong.length ? el("div", { id: "fit-correlated" }, el("p", { className: "fit-note", textContent: "Strongly correlated pairs (the data trade one against the other):" }), el("ul", {}, ...strong)) : el("p", { className: "hint-text", id: "fit-correlated", textContent: "No pair of parameters strongly correlated." }));
+  const limit = fmtText(r.strong_limit ?? 0.9, 2);
+  parts.push(
+    strong.length
+      ? el("details", { id: "fit-correlated", open: strong.length <= 4 }, el("summary", { className: "fit-note", textContent: `${strong.length} strongly correlated pair${strong.length > 1 ? "s" : ""} (|r| ≥ ${limit}: the data trade one against the other)` }), el("ul", {}, ...strong))
+      : el("p", { className: "hint-text", id: "fit-correlated", textContent: `No pair of parameters correlated with |r| ≥ ${limit}.` }),
+  );
   return parts;
 }
 

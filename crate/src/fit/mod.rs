@@ -573,6 +573,9 @@ fn write_back(doc: &mut Document, problem: &FitProblem, values: &[f64]) {
     }
 }
 
+/// `progress(start, iteration, chi_square, variables)` after each accepted step; false cancels.
+pub type StartProgress<'a> = dyn FnMut(usize, usize, f64, &[f64]) -> bool + 'a;
+
 /// Every start's outcome and the best.
 pub struct Starts {
     pub best: lm::Outcome,
@@ -582,13 +585,7 @@ pub struct Starts {
 /// Local fits from the given start and from `starts - 1` perturbed starts
 /// (each free value moved by up to 20 % of itself, or of its width for a
 /// centre, kept inside its bounds), on two threads natively.
-pub fn multistart(
-    problem: &FitProblem,
-    starts: usize,
-    max_iterations: usize,
-    seed: u64,
-    progress: &mut dyn FnMut(usize, usize, f64, &[f64]) -> bool,
-) -> Starts {
+pub fn multistart(problem: &FitProblem, starts: usize, max_iterations: usize, seed: u64, progress: &mut StartProgress) -> Starts {
     let first = problem.layout.start();
     let mut rng = SmallRng::seed_from_u64(seed);
     let mut points = vec![first.clone()];

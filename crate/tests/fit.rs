@@ -407,3 +407,32 @@ fn geometry_parameters_that_do_not_exist_are_refused() {
     let e = fit(&doc, &model, &sets, &mut |_, _, _| true).unwrap_err().to_string();
     assert!(e.contains("no coupled system named \"pair\""), "{e}");
 }
+
+/// The page splits the starts over workers (`Prepared::run_starts`, start k
+/// to worker k mod n) and joins them (`Prepared::finish`): the result must be
+/// the whole fit's, bit for bit (source: `fit` itself on the same document).
+#[test]
+fn starts_split_over_workers_join_to_the_whole_fit() {
+    let mut doc = problem_document("start.json");
+    doc.fit = Some(FitDoc { starts: Some(5), ..FitDoc::default() });
+    let whole = run(&doc);
+    let (model, sets) = sets(&doc);
+    for workers in [1, 2, 3] {
+        let prepared = chiroptic::fit::prepare(&doc, &model, &sets).expect("prepared");
+        let mut parts: Vec<(usize, chiroptic::fit::lm::Outcome)> =
+            (0..workers).flat_map(|j| prepared.run_starts(j, workers, &mut |_| true)).collect();
+        parts.sort_by_key(|(k, _)| *k);
+        assert_eq!(parts.iter().map(|(k, _)| *k).collect::<Vec<_>>(), (0..5).collect::<Vec<_>>());
+        let joined = prepared.finish(parts.into_iter().map(|(_, o)| o).collect()).expect("joined");
+        assert_eq!(joined, whole, "{workers} workers");
+    }
+    // Outcomes that do not match the settings are refused, not trusted.
+    let prepared = chiroptic::fit::prepare(&doc, &model, &sets).expect("prepared");
+    let some = prepared.run_starts(0, 2, &mut |_| true).into_iter().map(|(_, o)| o).collect::<Vec<_>>();
+    let e = prepared.finish(some).unwrap_err().to_string();
+    assert!(e.contains("do not match"), "{e}");
+    let prepared = chiroptic::fit::prepare(&doc, &model, &sets).expect("prepared");
+    let mut wrong = prepared.run_starts(0, 1, &mut |_| true).into_iter().map(|(_, o)| o).collect::<Vec<_>>();
+    wrong[0].u.pop();
+    assert!(prepared.finish(wrong).is_err(), "a short variable vector is refused");
+}

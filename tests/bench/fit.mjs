@@ -2,9 +2,10 @@
 // parameters) jointly to one CD and one ORD set of 1000 points each, from a
 // start 20 % off (fixtures/fit/bench_*, invented, made by bench_fit.py), as
 // a person runs it: files dropped, starts typed, Fit clicked. Times one local
-// Levenberg-Marquardt run (1 start) and the default fit (8 starts, one after
-// the other in the page's one worker), each measured inside the worker around
-// the core's call and from the click to the report on screen; prints medians.
+// Levenberg-Marquardt run (1 start, one worker) and the default fit (8 starts
+// split over as many workers as the machine has cores, at most 4), each
+// measured in the page from handing the fit to the workers to the joined
+// result, and from the click to the report on screen; prints medians.
 // The native figures come from `cargo bench -p chiroptic --bench fit`
 // (crate/benches/fit.rs); `--native` runs it after the page for a same-run ratio.
 // Run after ./build.sh:   node tests/bench/fit.mjs [--native]
@@ -58,7 +59,7 @@ for (const starts of [1, 8]) {
     await page.waitForSelector("#fit-report", { state: "hidden" });
   }
   console.log(
-    `in-page fit, ${starts} start${starts > 1 ? "s" : ""}: median ${median(worker).toFixed(1)} ms in the worker ` +
+    `in-page fit, ${starts} start${starts > 1 ? "s" : ""}: median ${median(worker).toFixed(1)} ms in the workers ` +
       `(${Math.min(...worker).toFixed(1)}–${Math.max(...worker).toFixed(1)}), ${median(wall)} ms click to report; ` +
       `χ² ${chi.toFixed(6)}, ${atBest} of ${starts} starts at the best (${RUNS[starts]} runs)`,
   );

@@ -195,5 +195,7 @@ export const systemGeometry = (doc, i) => reply(() => wasm.system_geometry(doc, 
 
 /** The fit panel's fields, defaults and caps: `{ ok, fields, default_free, default_starts, max_starts, ... }`. */
 export const fitCatalog = () => reply(() => wasm.fit_catalog());
+/** The fit from every start's outcome, as the fit workers found them: `{ ok, document, report }`. */
+export const fitFinish = (doc, outcomes) => reply(() => wasm.fit_finish(doc, outcomes));
 /** |r| from which the core names a pair strongly correlated. */
 export const fitStrongCorrelation = () => orElse(() => wasm.fit_catalog(), "strong_correlation", null);

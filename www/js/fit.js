@@ -14,8 +14,10 @@ import { runFit, cancelFit, fitRunning } from "./fitrun.js";
 import { bindFitSettings, renderFitSettings, renderFitTable, fitCatalog } from "./fitparams.js";
 import { renderReport, addComparison, bindReport } from "./fitreport.js";
 
-/** The fit in flight: the document it started from, the latest progress, the readout's frame. */
-const run = { start: null, latest: null, frame: 0, starts: 0 };
+/** The fit in flight: the document it started from, the latest progress, the readout's frame, its starts and workers. */
+const run = { start: null, latest: null, frame: 0, starts: 0, workers: 1 };
+/** Workers a fit's starts are split over, at most. */
+const MAX_FIT_WORKERS = 4;
 
 function setRunning(on) {
   $("fit-run").hidden = on;
@@ -38,7 +40,8 @@ function showProgress() {
   run.frame = 0;
   const m = run.latest;
   if (!m || !fitRunning()) return;
-  const text = `Fitting: start ${m.start + 1} of ${run.starts} · iteration ${m.iteration} · χ² ${fmtText(m.chi_square, 6)}`;
+  const on = run.workers > 1 ? ` (${run.workers} workers)` : "";
+  const text = `Fitting: start ${m.start + 1} of ${run.starts} · iteration ${m.iteration} · χ² ${fmtText(m.chi_square, 6)}${on}`;
   say(text);
   // Also beside the plots, which the panel may be scrolled away from.
   setStatus(text);
@@ -55,6 +58,8 @@ function startFit() {
   problem(null);
   const start = structuredClone(state.doc);
   Object.assign(run, { start, latest: null, starts: start.fit?.starts ?? fitCatalog.default_starts });
+  // The starts split over as many workers as the machine has cores (a few at most).
+  run.workers = Math.max(1, Math.min(navigator.hardwareConcurrency || 1, MAX_FIT_WORKERS, run.starts));
   setRunning(true);
   say("Fitting: starting…");
   runFit(start, {
@@ -80,16 +85,17 @@ function startFit() {
       addComparison(reply.document, r);
       loadDocument(reply.document);
       $("fit-progress").dataset.ms = String(ms);
-      say(`Fitted in ${(ms / 1000).toFixed(2)} s: χ² ${fmtText(r.chi_square, 6)}, ${r.starts_at_best} of ${r.starts} starts reached the best minimum.`);
+      const on = run.workers > 1 ? ` on ${run.workers} workers` : "";
+      say(`Fitted in ${(ms / 1000).toFixed(2)} s${on}: χ² ${fmtText(r.chi_square, 6)}, ${r.starts_at_best} of ${r.starts} starts reached the best minimum.`);
       setStatus("Fitted: one undo step takes the fit back");
     },
     onFailed(message) {
       setRunning(false);
       refresh();
       say("");
-      problem(`The fit stopped: ${message}. The model is unchanged; the next fit starts a fresh worker.`);
+      problem(`The fit stopped: ${message}. The model is unchanged; the next fit starts fresh workers.`);
     },
-  });
+  }, { workers: run.workers });
 }
 
 /** Cancel: the worker goes, the start model is drawn again. */

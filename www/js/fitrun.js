@@ -1,12 +1,15 @@
-// The fit worker's keeper on the page side: spawns the worker (the compiled
-// core posted to it once), hands it a fit, passes its messages on, and
-// cancels by terminating it; the next fit gets a fresh worker. In the single
+// The fit workers' keeper on the page side: spawns workers (the compiled
+// core posted to each once), hands out a fit — whole to one worker, or its
+// starts split over several (start k to worker k mod n), joined by the core
+// (`fitFinish`) into the same result — passes their messages on, and cancels
+// by terminating them; the next fit gets fresh workers. In the single
 // offline file the worker's code rides inline and runs from a blob: URL.
 
 import * as core from "./core.js";
 
-let worker = null;
-/** The fit in flight: its handlers, or null. */
+/** Idle or busy workers, kept between fits. */
+const pool = [];
+/** The fit in flight: { handlers, doc, parts, t0 }, or null. */
 let running = null;
 
 /** A module worker from the site; in the single file a classic one from the inline script (file:// pages get no module workers from blob: URLs). */
@@ -16,58 +19,69 @@ function newWorker() {
   return new Worker(new URL("./fitworker.js", import.meta.url), { type: "module" });
 }
 
-function spawn() {
+function spawn(j) {
   const w = newWorker();
   w.postMessage({ module: core.compiledCore() });
   w.onmessage = (event) => {
+    const run = running;
+    if (!run || pool[j] !== w || j >= run.parts.length) return;
     const m = event.data;
-    const h = running;
-    if (!h || w !== worker) return;
-    if (m.type === "progress") h.onProgress?.(m);
-    else if (m.type === "snapshot") h.onSnapshot?.(m);
-    else if (m.type === "done") finish(() => h.onDone(m.reply, m.ms));
-    else if (m.type === "failed") {
-      retire();
-      finish(() => h.onFailed(m.message));
-    }
+    if (m.type === "progress") run.handlers.onProgress?.({ ...m, worker: j });
+    // The curves follow the first worker, which has the given start.
+    else if (m.type === "snapshot" && j === 0) run.handlers.onSnapshot?.(m);
+    else if (m.type === "done") partDone(run, j, m.reply);
+    else if (m.type === "failed") fail(m.message);
   };
   w.onerror = (e) => {
     e.preventDefault?.();
-    const h = running;
-    retire();
-    if (h) finish(() => h.onFailed(`the fit worker failed: ${e.message || "no message"}`));
+    if (running && pool[j] === w) fail(`the fit worker failed: ${e.message || "no message"}`);
   };
   return w;
 }
 
-function finish(then) {
+function partDone(run, j, reply) {
+  run.parts[j] = reply;
+  if (run.parts.some((p) => p === null)) return;
   running = null;
-  then();
+  const ms = () => performance.now() - run.t0;
+  if (run.parts.length === 1) return run.handlers.onDone(reply, ms());
+  const refused = run.parts.find((p) => !p.ok);
+  if (refused) return run.handlers.onDone(refused, ms());
+  const joined = core.fitFinish(run.doc, run.parts.flatMap((p) => p.outcomes));
+  run.handlers.onDone(joined, ms());
 }
 
-function retire() {
-  worker?.terminate();
-  worker = null;
+function fail(message) {
+  const run = running;
+  retireAll();
+  running = null;
+  run?.handlers.onFailed(message);
+}
+
+function retireAll() {
+  for (const w of pool.splice(0)) w.terminate();
 }
 
 export const fitRunning = () => running !== null;
 
 /**
- * Starts a fit of `doc` (a plain document). handlers: onProgress({ start,
- * iteration, chi_square }), onSnapshot({ bands, systems }), onDone(reply, ms),
- * onFailed(message). One fit at a time.
+ * Starts a fit of `doc` (a plain document) on `workers` workers. handlers:
+ * onProgress({ start, iteration, chi_square, worker }), onSnapshot({ bands,
+ * systems }), onDone(reply, ms) with the core's `{ ok, document, report }`
+ * or error, onFailed(message). One fit at a time.
  */
-export function runFit(doc, handlers, { snapshotMs = 150 } = {}) {
+export function runFit(doc, handlers, { workers = 1, snapshotMs = 150 } = {}) {
   if (running) throw new Error("a fit is already running");
-  worker ??= spawn();
-  running = handlers;
-  worker.postMessage({ doc, snapshotMs });
+  const n = Math.max(1, workers);
+  for (let j = pool.length; j < n; j++) pool.push(spawn(j));
+  running = { handlers, doc, parts: new Array(n).fill(null), t0: performance.now() };
+  for (let j = 0; j < n; j++) pool[j].postMessage(n === 1 ? { doc, snapshotMs } : { doc, first: j, stride: n, snapshotMs });
 }
 
-/** Stops the fit in flight (the worker is terminated; nothing it found is kept). */
+/** Stops the fit in flight (the workers are terminated; nothing they found is kept). */
 export function cancelFit() {
   if (!running) return false;
   running = null;
-  retire();
+  retireAll();
   return true;
 }

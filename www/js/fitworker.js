@@ -1,17 +1,19 @@
-// The fit worker: the wasm core's bridge inside a module worker, so that a
-// fit (a synchronous loop in the core) never blocks the page. The page posts
-// the compiled module once ({ module }), then a fit ({ doc, snapshotMs }).
-// Messages back: progress (start, iteration, χ² after each accepted step),
-// snapshot (the bands reached, at most every snapshotMs), done (the core's
-// reply and the time taken) or failed (the core trapped; this worker is spent).
-// Cancel is the page terminating the worker: the loop cannot read messages.
+// The fit worker: the wasm core's bridge inside a worker, so that a fit (a
+// synchronous loop in the core) never blocks the page. The page posts the
+// compiled module once ({ module }), then a fit: { doc, snapshotMs } for the
+// whole fit, or { doc, first, stride, snapshotMs } for this worker's share of
+// the starts when several workers split them. Messages back: progress
+// (start, iteration, χ² after each accepted step), snapshot (the bands
+// reached, at most every snapshotMs), done (the core's reply) or failed (the
+// core trapped; this worker is spent). Cancel is the page terminating the
+// worker: the loop cannot read messages.
 
-import init, { fit_document } from "../pkg/chiroptic.js";
+import init, { fit_document, fit_starts } from "../pkg/chiroptic.js";
 
 let ready = null;
 
 self.onmessage = async (event) => {
-  const { module, doc, snapshotMs = 150 } = event.data;
+  const { module, doc, first, stride, snapshotMs = 150 } = event.data;
   if (module) ready = init({ module_or_path: module });
   if (!doc) return;
   try {
@@ -29,10 +31,9 @@ self.onmessage = async (event) => {
     return true;
   };
   const snapshot = (s) => self.postMessage({ type: "snapshot", bands: s.bands, systems: s.systems });
-  const t0 = performance.now();
   try {
-    const reply = fit_document(doc, progress, snapshot);
-    self.postMessage({ type: "done", reply, ms: performance.now() - t0 });
+    const reply = stride === undefined ? fit_document(doc, progress, snapshot) : fit_starts(doc, first, stride, progress, snapshot);
+    self.postMessage({ type: "done", reply });
   } catch (e) {
     self.postMessage({ type: "failed", message: `the calculation core stopped on an internal error (${e?.message ?? e})` });
   }

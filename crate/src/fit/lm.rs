@@ -35,6 +35,13 @@ impl Stop {
         }
     }
 
+    pub const ALL: [Stop; 5] = [Stop::Converged, Stop::Gradient, Stop::IterationLimit, Stop::Cancelled, Stop::Stalled];
+
+    /// The stop named by its key.
+    pub fn from_key(key: &str) -> Option<Stop> {
+        Stop::ALL.into_iter().find(|s| s.key() == key)
+    }
+
     pub fn key(self) -> &'static str {
         match self {
             Stop::Converged => "converged",

@@ -456,6 +456,32 @@ impl Step<'_> {
 
 /// `fit` with a progress hook that can also see the values reached ([`Step`]).
 pub fn fit_watched(doc: &Document, model: &Model, sets: &[DataSet], progress: &mut dyn FnMut(&Step) -> bool) -> Result<Fitted> {
+    let prepared = prepare(doc, model, sets)?;
+    let outcome =
+        multistart(&prepared.problem, prepared.starts, prepared.max_iterations, prepared.seed, &mut |start, iteration, chi_square, u| {
+            progress(&Step { start, iteration, chi_square, doc, problem: &prepared.problem, u })
+        });
+    prepared.finish(outcome.all)
+}
+
+/// A fit made ready and checked: parameters, weights, the problem and the
+/// settings. `fit_watched` runs every start and finishes; the page splits
+/// the starts over its workers ([`Prepared::run_starts`]) and finishes once
+/// with all their outcomes, which gives the same result.
+pub struct Prepared<'a> {
+    doc: &'a Document,
+    settings: FitDoc,
+    problem: FitProblem,
+    sets: Vec<DataSet>,
+    relative: bool,
+    warnings: Vec<String>,
+    starts: usize,
+    max_iterations: usize,
+    seed: u64,
+}
+
+/// Reads the fit settings and builds the problem, refusing what cannot be fitted.
+pub fn prepare<'a>(doc: &'a Document, model: &Model, sets: &[DataSet]) -> Result<Prepared<'a>> {
     let settings = doc.fit.clone().unwrap_or_default();
     let starts = settings.starts.unwrap_or(DEFAULT_STARTS);
     let max_iterations = settings.max_iterations.unwrap_or(DEFAULT_MAX_ITERATIONS);
@@ -508,26 +534,73 @@ pub fn fit_watched(doc: &Document, model: &Model, sets: &[DataSet], progress: &m
         return Err(Error::new(ErrorKind::OutOfRange, "fit", format!("{} points cannot determine {nfree} free parameters", problem.len())));
     }
 
-    let outcome = multistart(
-        &problem,
-        starts as usize,
-        max_iterations as usize,
-        settings.seed.unwrap_or(1),
-        &mut |start, iteration, chi_square, u| progress(&Step { start, iteration, chi_square, doc, problem: &problem, u }),
-    );
-    let best = outcome.best.clone();
-    if !best.chi_square.is_finite() {
-        return Err(Error::new(ErrorKind::OutOfRange, "fit", "the fit did not converge: chi-square is not finite"));
+    Ok(Prepared {
+        doc,
+        seed: settings.seed.unwrap_or(1),
+        settings,
+        problem,
+        sets: fitted_sets,
+        relative,
+        warnings,
+        starts: starts as usize,
+        max_iterations: max_iterations as usize,
+    })
+}
+
+impl Prepared<'_> {
+    pub fn starts(&self) -> usize {
+        self.starts
     }
-    let report = report(doc, &problem, &fitted_sets, &best, &outcome, relative, warnings);
-    let mut document = doc.clone();
-    write_back(&mut document, &problem, &problem.layout.values(&best.u));
-    let mut fit_doc = settings;
-    fit_doc.report = Some(report.clone());
-    document.fit = Some(fit_doc);
-    // The fitted model must itself be valid (a fit may not leave |g| <= 2, widths > 0 ...).
-    Model::from_document(&document).map_err(|e| Error::new(e.kind, e.field, format!("the fitted model is not valid: {}", e.message)))?;
-    Ok(Fitted { document, report })
+
+    /// The local fits from starts `first`, `first + stride`, ... (numbered as
+    /// in `multistart`), one after the other, with their start numbers.
+    pub fn run_starts(&self, first: usize, stride: usize, progress: &mut dyn FnMut(&Step) -> bool) -> Vec<(usize, lm::Outcome)> {
+        let points = start_points(&self.problem, self.starts, self.seed);
+        points
+            .iter()
+            .enumerate()
+            .skip(first)
+            .step_by(stride.max(1))
+            .map(|(k, u0)| {
+                let outcome = lm::minimise(&self.problem, u0, self.max_iterations, &mut |iteration, chi_square, u| {
+                    progress(&Step { start: k, iteration, chi_square, doc: self.doc, problem: &self.problem, u })
+                });
+                (k, outcome)
+            })
+            .collect()
+    }
+
+    /// The report and the fitted document from every start's outcome, in start order.
+    pub fn finish(self, all: Vec<lm::Outcome>) -> Result<Fitted> {
+        let k = self.problem.layout.free.len();
+        if all.len() != self.starts || all.iter().any(|o| o.u.len() != k) {
+            return Err(Error::new(
+                ErrorKind::OutOfRange,
+                "fit",
+                format!(
+                    "the fit's starts do not match its settings ({} outcomes for {} starts of {k} free parameters)",
+                    all.len(),
+                    self.starts
+                ),
+            ));
+        }
+        let outcome = Starts { best: best_of(&all), all };
+        let best = outcome.best.clone();
+        if !best.chi_square.is_finite() {
+            return Err(Error::new(ErrorKind::OutOfRange, "fit", "the fit did not converge: chi-square is not finite"));
+        }
+        let (doc, problem) = (self.doc, &self.problem);
+        let report = report(doc, problem, &self.sets, &best, &outcome, self.relative, self.warnings);
+        let mut document = doc.clone();
+        write_back(&mut document, problem, &problem.layout.values(&best.u));
+        let mut fit_doc = self.settings;
+        fit_doc.report = Some(report.clone());
+        document.fit = Some(fit_doc);
+        // The fitted model must itself be valid (a fit may not leave |g| <= 2, widths > 0 ...).
+        Model::from_document(&document)
+            .map_err(|e| Error::new(e.kind, e.field, format!("the fitted model is not valid: {}", e.message)))?;
+        Ok(Fitted { document, report })
+    }
 }
 
 /// Bands that no data set sees: warn, do not pretend.
@@ -586,12 +659,7 @@ pub struct Starts {
 /// (each free value moved by up to 20 % of itself, or of its width for a
 /// centre, kept inside its bounds), on two threads natively.
 pub fn multistart(problem: &FitProblem, starts: usize, max_iterations: usize, seed: u64, progress: &mut StartProgress) -> Starts {
-    let first = problem.layout.start();
-    let mut rng = SmallRng::seed_from_u64(seed);
-    let mut points = vec![first.clone()];
-    for _ in 1..starts {
-        points.push(perturbed(problem, &mut rng));
-    }
+    let points = start_points(problem, starts, seed);
     let run = |u0: &Vec<f64>, report: &mut dyn FnMut(usize, f64, &[f64]) -> bool| lm::minimise(problem, u0, max_iterations, report);
     let mut all: Vec<lm::Outcome> = Vec::with_capacity(points.len());
     #[cfg(not(target_arch = "wasm32"))]
@@ -609,13 +677,28 @@ pub fn multistart(problem: &FitProblem, starts: usize, max_iterations: usize, se
     for (k, u0) in points.iter().enumerate() {
         all.push(run(u0, &mut |i, chi, u| progress(k, i, chi, u)));
     }
-    let best = all
-        .iter()
+    Starts { best: best_of(&all), all }
+}
+
+/// The given start and `starts - 1` perturbed ones, from a seeded generator
+/// (the same points on every run and machine).
+fn start_points(problem: &FitProblem, starts: usize, seed: u64) -> Vec<Vec<f64>> {
+    let mut rng = SmallRng::seed_from_u64(seed);
+    let mut points = vec![problem.layout.start()];
+    for _ in 1..starts {
+        points.push(perturbed(problem, &mut rng));
+    }
+    points
+}
+
+/// The lowest finite chi-square (the first of equals), else the first start.
+fn best_of(all: &[lm::Outcome]) -> lm::Outcome {
+    all.iter()
         .filter(|o| o.chi_square.is_finite())
         .min_by(|a, b| a.chi_square.total_cmp(&b.chi_square))
+        .or(all.first())
         .cloned()
-        .unwrap_or_else(|| all[0].clone());
-    Starts { best, all }
+        .unwrap_or(lm::Outcome { u: Vec::new(), chi_square: f64::NAN, iterations: 0, stop: lm::Stop::Stalled })
 }
 
 fn perturbed(problem: &FitProblem, rng: &mut SmallRng) -> Vec<f64> {

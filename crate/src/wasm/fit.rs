@@ -1,17 +1,20 @@
-//! Fitting for the page, called from its fit worker (www/js/fitworker.js):
+//! Fitting for the page, called from its fit workers (www/js/fitworker.js):
 //! the core's `fit` on a document and its data sets, with progress through
-//! JS callbacks. The loop is synchronous, so Cancel is the page terminating
-//! the worker; nothing here needs to read a message.
+//! JS callbacks, whole (`fit_document`) or split over workers by start
+//! (`fit_starts` on each, `fit_finish` on the page). The loop is
+//! synchronous, so Cancel is the page terminating the workers; nothing here
+//! needs to read a message.
 
 use super::document_value;
 use super::reply::{ok, reply};
 use crate::data::data_sets;
-use crate::document::{BandDoc, FitReportDoc, SystemDoc};
-use crate::error::Error;
+use crate::document::{BandDoc, Document, FitReportDoc, SystemDoc};
+use crate::error::{Error, ErrorKind};
 use crate::fit;
+use crate::fit::lm::{Outcome, Stop};
 use crate::model::Model;
 use js_sys::Function;
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 use wasm_bindgen::prelude::*;
 
 /// The values a running fit has reached.
@@ -27,6 +30,97 @@ struct Fitted {
     report: FitReportDoc,
 }
 
+/// The snapshot callback's call after an accepted step, when `progress` asks for it.
+fn report_step(step: &fit::Step, progress: &Function, snapshot: &Function) -> bool {
+    let asked = progress.call3(
+        &JsValue::NULL,
+        &JsValue::from(step.start as f64),
+        &JsValue::from(step.iteration as f64),
+        &JsValue::from(step.chi_square),
+    );
+    // A callback that throws is not the fit's business: it goes on.
+    if asked.is_ok_and(|v| v.is_truthy()) {
+        let now = step.document();
+        let _ = snapshot.call1(&JsValue::NULL, &ok(&Snapshot { bands: &now.bands, systems: &now.systems }));
+    }
+    true
+}
+
+fn prepared_from_js(doc: JsValue) -> Result<(Document, Model, Vec<crate::data::DataSet>), Error> {
+    let doc = super::document_from_js(doc)?;
+    let model = Model::from_document(&doc)?;
+    let sets = data_sets(&doc, &model)?;
+    Ok((doc, model, sets))
+}
+
+/// One start's outcome as it crosses to the page and back (a NaN chi-square crosses as null).
+#[derive(Serialize, Deserialize)]
+struct StartOutcome {
+    start: usize,
+    u: Vec<f64>,
+    chi_square: Option<f64>,
+    iterations: usize,
+    stop: String,
+}
+
+#[derive(Serialize)]
+struct Outcomes {
+    outcomes: Vec<StartOutcome>,
+}
+
+/// Part of a fit, for one of several workers: the local fits from starts
+/// `first`, `first + stride`, ... of the document's fit (progress as in
+/// `fit_document`). Replies `{ ok, outcomes: [{ start, u, chi_square,
+/// iterations, stop }] }` or the core's error; `fit_finish` joins them.
+#[wasm_bindgen]
+pub fn fit_starts(doc: JsValue, first: usize, stride: usize, progress: &Function, snapshot: &Function) -> JsValue {
+    let result = (|| -> Result<Outcomes, Error> {
+        let (doc, model, sets) = prepared_from_js(doc)?;
+        let prepared = fit::prepare(&doc, &model, &sets)?;
+        let outcomes = prepared
+            .run_starts(first, stride, &mut |step| report_step(step, progress, snapshot))
+            .into_iter()
+            .map(|(start, o)| StartOutcome {
+                start,
+                u: o.u,
+                chi_square: Some(o.chi_square).filter(|c| c.is_finite()),
+                iterations: o.iterations,
+                stop: o.stop.key().into(),
+            })
+            .collect();
+        Ok(Outcomes { outcomes })
+    })();
+    reply(result)
+}
+
+/// The fit from every start's outcome (from `fit_starts` on each worker):
+/// `{ ok, document, report }` as `fit_document` gives, or the core's error
+/// (also when the outcomes do not match the document's starts).
+#[wasm_bindgen]
+pub fn fit_finish(doc: JsValue, outcomes: JsValue) -> JsValue {
+    let result = (|| -> Result<Fitted, Error> {
+        let (doc, model, sets) = prepared_from_js(doc)?;
+        let prepared = fit::prepare(&doc, &model, &sets)?;
+        let mut given: Vec<StartOutcome> = serde_wasm_bindgen::from_value(outcomes)
+            .map_err(|e| Error::new(ErrorKind::Syntax, "fit", format!("the starts' outcomes are unreadable: {e}")))?;
+        given.sort_by_key(|o| o.start);
+        if given.iter().enumerate().any(|(k, o)| o.start != k) {
+            return Err(Error::new(ErrorKind::OutOfRange, "fit", "the starts' outcomes do not number every start once"));
+        }
+        let all = given
+            .into_iter()
+            .map(|o| {
+                let stop = Stop::from_key(&o.stop)
+                    .ok_or_else(|| Error::new(ErrorKind::UnknownName, "fit", format!("unknown stop \"{}\"", o.stop)))?;
+                Ok(Outcome { u: o.u, chi_square: o.chi_square.unwrap_or(f64::NAN), iterations: o.iterations, stop })
+            })
+            .collect::<Result<Vec<_>, Error>>()?;
+        let fitted = prepared.finish(all)?;
+        Ok(Fitted { document: document_value(&fitted.document), report: fitted.report })
+    })();
+    reply(result)
+}
+
 /// Fits the document's bands to its shown data sets and readings, as its
 /// `fit` section says. After each accepted step `progress(start, iteration,
 /// chi_square)` is called; when it returns true, `snapshot({ ok, bands,
@@ -37,23 +131,8 @@ struct Fitted {
 #[wasm_bindgen]
 pub fn fit_document(doc: JsValue, progress: &Function, snapshot: &Function) -> JsValue {
     let result = (|| -> Result<Fitted, Error> {
-        let doc = super::document_from_js(doc)?;
-        let model = Model::from_document(&doc)?;
-        let sets = data_sets(&doc, &model)?;
-        let fitted = fit::fit_watched(&doc, &model, &sets, &mut |step| {
-            let asked = progress.call3(
-                &JsValue::NULL,
-                &JsValue::from(step.start as f64),
-                &JsValue::from(step.iteration as f64),
-                &JsValue::from(step.chi_square),
-            );
-            // A callback that throws is not the fit's business: it goes on.
-            if asked.is_ok_and(|v| v.is_truthy()) {
-                let now = step.document();
-                let _ = snapshot.call1(&JsValue::NULL, &ok(&Snapshot { bands: &now.bands, systems: &now.systems }));
-            }
-            true
-        })?;
+        let (doc, model, sets) = prepared_from_js(doc)?;
+        let fitted = fit::fit_watched(&doc, &model, &sets, &mut |step| report_step(step, progress, snapshot))?;
         Ok(Fitted { document: document_value(&fitted.document), report: fitted.report })
     })();
     reply(result)

@@ -11,6 +11,7 @@ import { fmtText } from "./format.js";
 import { setStatus } from "./messages.js";
 import { download, fileStem } from "./files.js";
 import { loadDocument } from "./edit.js";
+import { plotTitle } from "./plots.js";
 
 /** Fits kept side by side (page state: the session's, newest last). */
 const KEPT_FITS = 8;
@@ -69,7 +70,7 @@ const summaryItems = (r) => [
 ];
 
 function estimatesTable(r) {
-  const head = el("tr", {}, ...["Parameter", "", "Estimate ± standard error", "Unit", "How"].map((t) => el("th", { scope: "col", textContent: t })));
+  const head = el("tr", {}, ...["Parameter", "", "Estimate ± standard error", "Unit", "How"].map((t, i) => el("th", { scope: "col", textContent: t, className: i === 2 ? "num" : "" })));
   const rows = r.parameters.map((p) => {
     const d = describe(p.name);
     const how = p.mode === "free" ? (p.at_bound ? "free, at a bound" : "free") : p.mode;
@@ -133,16 +134,19 @@ export function reportCsv(doc, r) {
 /** A self-contained HTML report to print: figures of merit, estimates, the CD and ORD figures. */
 function printableReport(doc, r) {
   const body = el("body", {}, el("h1", { textContent: doc.title || "Fit report" }), el("p", { textContent: `chiroptic fit report, ${new Date().toISOString().slice(0, 10)}; bands: ${doc.bands.length}` }), ...reportParts(r));
+  // On paper every part is shown.
+  body.querySelectorAll("details").forEach((d) => (d.open = true));
   for (const key of ["cd", "ord"]) {
     try {
       const fig = el("figure", {});
       fig.innerHTML = core.svg(key, { width: 640, height: 360, font_px: null, legend: true });
+      fig.append(el("figcaption", { textContent: `${plotTitle(key)}: the fitted model (lines) and the data (points), residuals below` }));
       body.append(fig);
     } catch {
       // A plot the model cannot draw (no ORD data, a unit lacking sample data) is left out.
     }
   }
-  const style = "body{font:13px system-ui,sans-serif;max-width:760px;margin:2em auto;color:#111}table{border-collapse:collapse}th,td{padding:2px 8px;text-align:left;border-bottom:1px solid #ccc}dl{display:grid;grid-template-columns:auto 1fr;gap:2px 12px}dd{margin:0}.unit{color:#555}.warn-text{color:#a00}figure{margin:1em 0;break-inside:avoid}";
+  const style = "body{font:13px system-ui,sans-serif;max-width:760px;margin:2em auto;color:#111}table{border-collapse:collapse}th,td{padding:2px 8px;text-align:left;border-bottom:1px solid #ccc}dl{display:grid;grid-template-columns:auto 1fr;gap:2px 12px}dd{margin:0}.unit{color:#555}.warn-text{color:#a00}figure{margin:1em 0;break-inside:avoid}figcaption{color:#555}th.num,td.num-text{text-align:right}";
   return `<!doctype html>\n<html lang="en"><head><meta charset="utf-8"><title>${el("i", { textContent: doc.title || "Fit report" }).innerHTML}</title><style>${style}</style></head>${body.outerHTML}</html>\n`;
 }
 

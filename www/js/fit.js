@@ -9,7 +9,7 @@ import { $ } from "./dom.js";
 import { state } from "./state.js";
 import { fmtText } from "./format.js";
 import { setStatus } from "./messages.js";
-import { loadDocument, refresh, preview } from "./edit.js";
+import { loadDocument, refresh, preview, flushEdits } from "./edit.js";
 import { runFit, cancelFit, fitRunning } from "./fitrun.js";
 import { bindFitSettings, renderFitSettings, renderFitTable, fitCatalog } from "./fitparams.js";
 import { renderReport, addComparison, bindReport } from "./fitreport.js";
@@ -55,6 +55,8 @@ function refusal(err) {
 
 function startFit() {
   if (fitRunning()) return;
+  // A change typed just before the click is applied now, not after the fit has started (which would stop it).
+  flushEdits();
   problem(null);
   const start = structuredClone(state.doc);
   Object.assign(run, { start, latest: null, starts: start.fit?.starts ?? fitCatalog.default_starts });

@@ -41,7 +41,8 @@ function describe(name) {
 export function withError(v, se) {
   if (!Number.isFinite(se) || se <= 0) return fmtText(v, 6);
   const decimals = Math.max(0, 1 - Math.floor(Math.log10(se)));
-  if (decimals > 8 || Math.abs(v) >= 1e7) return `${fmtText(v, 6)} ± ${fmtText(se, 2)}`;
+  // Fixed point only while it stays short; else both in ×10ⁿ.
+  if (decimals > 8 || v.toFixed(decimals).length > 12) return `${fmtText(v, 6)} ± ${fmtText(se, 2)}`;
   return `${v.toFixed(decimals)} ± ${se.toFixed(decimals)}`.replace(/(^|\s)-/g, "$1−");
 }
 

@@ -81,11 +81,29 @@ function nameCell(tr, band, i) {
   name.dataset.field = `bands[${i}].name`;
   name.setAttribute("aria-describedby", `band-${i}-error`);
   name.addEventListener("input", () => {
+    renameInFitSettings(band.name ?? "", name.value);
     band.name = name.value;
     labelActions(tr, band, i);
     edit({ merge: name });
   });
   return el("td", { className: "col-name" }, el("div", { className: "name-cell" }, swatch, name));
+}
+
+/**
+ * The fit settings name parameters "BAND.field": a renamed band takes its
+ * settings (its own and the ties to it) along, so the next fit still finds them.
+ */
+function renameInFitSettings(from, to) {
+  const settings = state.doc.fit?.parameters;
+  if (!from || !settings) return;
+  const renamed = (text) => {
+    const dot = text?.lastIndexOf(".") ?? -1;
+    return dot > 0 && text.slice(0, dot) === from ? `${to}${text.slice(dot)}` : text;
+  };
+  for (const p of settings) {
+    p.parameter = renamed(p.parameter);
+    if (p.link) p.link.to = renamed(p.link.to);
+  }
 }
 
 function shapeCell(band, i) {

@@ -111,8 +111,18 @@ test("a fit run to the end gives the CLI's χ² and estimates; one undo step res
   // The estimates as CSV: one row per parameter with the report's numbers in full.
   const { name, text } = await downloadText(page, "#fit-save-csv");
   assert.match(name, /fit\.csv$/);
-  const { header, rows } = parseCsv(text);
+  const [estimates, matrix] = text.split("\n\n");
+  const { header, rows } = parseCsv(estimates);
   assert.deepEqual(header, ["parameter", "value", "standard_error", "mode", "at_bound"]);
+  // The correlation matrix after the estimates: the CLI's, row by row.
+  const corr = parseCsv(matrix);
+  const names = native.fit.report.correlation_names;
+  assert.deepEqual(corr.header, ["correlation", ...names]);
+  corr.rows.forEach((r, i) => {
+    assert.equal(r[0], names[i]);
+    assert.equal(Number(r[i + 1]), 1, "a parameter's correlation with itself");
+    names.forEach((_, j) => assert.ok(Math.abs(Number(r[j + 1]) - native.fit.report.correlations[i * names.length + j]) < 1e-4, `r(${i},${j})`));
+  });
   assert.equal(rows.length, native.fit.report.parameters.length);
   rows.forEach((r, i) => {
     const c = native.fit.report.parameters[i];

@@ -121,7 +121,11 @@ export function renderReport(r) {
   box.replaceChildren(el("h3", { textContent: "Last fit of this model" }), ...reportParts(r), actions);
 }
 
-/** The estimates as CSV: `#` lines with the figures of merit, then one row per parameter (full precision). */
+/**
+ * The estimates as CSV: `#` lines with the figures of merit, one row per
+ * parameter (full precision), then, after a blank line, the free parameters'
+ * correlation matrix.
+ */
 export function reportCsv(doc, r) {
   const lines = [`# chiroptic fit report: ${doc.title ?? ""}`];
   for (const k of ["chi_square", "reduced_chi_square", "degrees_of_freedom", "points", "free_parameters", "aic", "bic", "iterations", "stop", "starts", "starts_at_best"]) lines.push(`# ${k}: ${r[k]}`);
@@ -129,6 +133,12 @@ export function reportCsv(doc, r) {
   lines.push("parameter,value,standard_error,mode,at_bound");
   const quote = (t) => (/[",\n]/.test(t) ? `"${t.replace(/"/g, '""')}"` : t);
   for (const p of r.parameters) lines.push([quote(p.name), String(p.value), p.standard_error === undefined ? "" : String(p.standard_error), p.mode, String(Boolean(p.at_bound))].join(","));
+  // After a blank line, the correlation matrix of the free parameters.
+  const names = r.correlation_names ?? [];
+  if (names.length) {
+    lines.push("", ["correlation", ...names.map(quote)].join(","));
+    names.forEach((n, i) => lines.push([quote(n), ...names.map((_, j) => String(r.correlations[i * names.length + j]))].join(",")));
+  }
   return `${lines.join("\n")}\n`;
 }
 

@@ -1,13 +1,15 @@
 //! Speed of `chiroptic::evaluate`: 10 bands on 2000 points, each lineshape,
 //! every output column (evaluate always computes them all, per-band
-//! contributions included). The model is fixtures/reference/bench_10_bands.json
+//! shapes kept for the band columns made on demand). The model is fixtures/reference/bench_10_bands.json
 //! with its shape set per case; the grid is 190..650 nm in 2000 even steps (inside the water preset range).
 //!
 //! After criterion, and only under `cargo bench`, the same cases are timed
 //! in the NumPy/SciPy reference (fixtures/reference/make_reference.py
 //! --bench) when python3 with numpy and scipy is there, and the Rust/NumPy
-//! ratio is printed against the targets of the core issue (>= 8x for
-//! Lorentz bands, >= 4x for Gaussian bands). Run: `cargo bench -p chiroptic`.
+//! ratio is printed against the targets of the speed issue (NumPy as it
+//! comes / with its memory kept: Lorentz >= 10x / 6x, Gaussian >= 5x / 3x;
+//! the core issue asked for >= 8x and >= 4x as it comes).
+//! Run: `cargo bench -p chiroptic`.
 //! A second group times the band shapes alone, to show how much of
 //! evaluate() is special functions and how much bookkeeping.
 
@@ -24,7 +26,8 @@ const BENCH_DOC: &str = include_str!("../../fixtures/reference/bench_10_bands.js
 const GROUP: &str = "evaluate_10x2000";
 const POINTS: usize = 2000;
 /// Lineshapes and the speed-up over NumPy the core issue asks for (none for Voigt).
-const CASES: [(&str, Option<f64>); 3] = [("lorentz", Some(8.0)), ("gaussian", Some(4.0)), ("voigt", None)];
+/// Lineshapes and the speed-up over NumPy asked for: (as it comes, memory kept).
+const CASES: [(&str, Option<(f64, f64)>); 3] = [("lorentz", Some((10.0, 6.0))), ("gaussian", Some((5.0, 3.0))), ("voigt", None)];
 
 fn model(shape: &str) -> Model {
     let mut doc: serde_json::Value = serde_json::from_str(BENCH_DOC).expect("bench document is JSON");
@@ -165,16 +168,14 @@ fn compare_with_numpy(dir: &Path) {
         for f in &numpy {
             let ratio = f.median_us / rust;
             parts.push(format!("NumPy ({}) {:8.1} us = {:5.1}x", f.malloc, f.median_us, ratio));
-            if let Some(t) = target {
-                verdicts.push(format!("{}: {}", f.malloc, if ratio >= t { "met" } else { "MISSED" }));
+            if let Some((as_it_comes, kept)) = target {
+                let t = if f.malloc == "kept" { kept } else { as_it_comes };
+                verdicts.push(format!("{} >= {t}x: {}", f.malloc, if ratio >= t { "met" } else { "MISSED" }));
             }
         }
         // Rust runs with the allocator as it comes, so `default` is the like-for-like
         // comparison; `kept` is NumPy's best case (see make_reference.py).
-        let verdict = match target {
-            Some(t) => format!("target >= {t}x vs NumPy {}", verdicts.join(", ")),
-            None => "no target".to_string(),
-        };
+        let verdict = if target.is_some() { format!("targets vs NumPy {}", verdicts.join(", ")) } else { "no target".to_string() };
         println!("  {shape:<9} Rust {rust:8.1} us   {}   [{verdict}]", parts.join("   "));
     }
     if let Some(f) = figures.iter().find(|f| f.case.starts_with("gaussian_wofz")) {

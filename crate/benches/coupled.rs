@@ -44,15 +44,9 @@ fn main() {
     c.bench_function("coupled_2x1_two_shapes_onto_2000", |b| b.iter(|| black_box(evaluate(&pair_lu, black_box(&nu)).ok())));
     let one = model(helix(20, 5.0, 3.4, 36.0, Handedness::Right, [0.3, 0.9, 0.3], &[transition(300.0, None)]));
     c.bench_function("coupled_20x1_eigen_onto_2000", |b| b.iter(|| black_box(evaluate(&one, black_box(&nu)).ok())));
-    let two = model(helix(
-        20,
-        5.0,
-        3.4,
-        36.0,
-        Handedness::Right,
-        [0.3, 0.9, 0.3],
-        &[transition(300.0, None), transition(220.0, Some([0.0, 0.0, 1.0]))],
-    ));
+    // The invented helix demo: 20 chromophores x 2 transitions (fixtures/demo).
+    let helix_doc = std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/../fixtures/demo/helix.json")).expect("helix demo");
+    let two = Model::from_document(&Document::from_json(&helix_doc).expect("helix demo")).expect("helix model");
     c.bench_function("coupled_20x2_onto_2000", |b| b.iter(|| black_box(evaluate(&two, black_box(&nu)).ok())));
     let n_solvent = vec![1.33; nu.len()];
     for (name, m) in [("coupled_20x1_response", &one), ("coupled_20x2_response", &two)] {

@@ -340,6 +340,18 @@ fn fit_writes_the_fitted_document_and_prints_the_report() {
     );
 }
 
+/// A document's wavelength and De columns from `eval` (190-330 nm), as a measured CD file.
+fn delta_epsilon_csv(doc: &std::path::Path) -> String {
+    let csv =
+        String::from_utf8(chiroptic(&["eval", doc.to_str().unwrap(), "--from", "190", "--to", "330", "--step", "0.5"]).stdout).unwrap();
+    csv.lines()
+        .map(|l| {
+            let f: Vec<&str> = l.split(',').collect();
+            format!("{},{}\n", f[0], f[12])
+        })
+        .collect()
+}
+
 #[test]
 fn states_and_compare_assign_a_configuration() {
     // The invented transition list of fixtures/states: broadened into a
@@ -355,15 +367,7 @@ fn states_and_compare_assign_a_configuration() {
     let shifted = dir.join("shifted.json");
     let out = chiroptic(&["states", &example, "--shift-ev", "0.2", "-o", shifted.to_str().unwrap()]);
     assert!(out.status.success());
-    let csv =
-        String::from_utf8(chiroptic(&["eval", shifted.to_str().unwrap(), "--from", "190", "--to", "330", "--step", "0.5"]).stdout).unwrap();
-    let de: String = csv
-        .lines()
-        .map(|l| {
-            let f: Vec<&str> = l.split(',').collect();
-            format!("{},{}\n", f[0], f[12])
-        })
-        .collect();
+    let de = delta_epsilon_csv(&shifted);
     let measured = temp_doc("measured-cd.csv", &de);
     let mirror: String = de
         .lines()
@@ -390,15 +394,7 @@ fn states_and_compare_assign_a_configuration() {
     // finds the 0.3 eV document's widths times 4/3 and the shift.
     let wide = dir.join("wide.json");
     assert!(chiroptic(&["states", &example, "--fwhm-ev", "0.4", "--shift-ev", "0.2", "-o", wide.to_str().unwrap()]).status.success());
-    let csv =
-        String::from_utf8(chiroptic(&["eval", wide.to_str().unwrap(), "--from", "190", "--to", "330", "--step", "0.5"]).stdout).unwrap();
-    let de_wide: String = csv
-        .lines()
-        .map(|l| {
-            let f: Vec<&str> = l.split(',').collect();
-            format!("{},{}\n", f[0], f[12])
-        })
-        .collect();
+    let de_wide = delta_epsilon_csv(&wide);
     let measured_wide = temp_doc("measured-wide-cd.csv", &de_wide);
     let out = chiroptic(&["compare", doc.to_str().unwrap(), measured_wide.to_str().unwrap(), "--fit-width"]);
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));

@@ -8,18 +8,9 @@
 // must not slow the plots. Targets (issue 12): swatch + strip < 5 ms, side
 // view < 50 ms.
 import { startBrowser, openPage } from "../lib/harness.mjs";
+import { arg, median, pct } from "../lib/stats.mjs";
 
-const arg = (name, dflt) => {
-  const i = process.argv.indexOf(name);
-  return i > 0 ? Number(process.argv[i + 1]) : dflt;
-};
 const rounds = arg("--rounds", 40);
-const median = (xs) => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-};
-const pct = (xs, p) => [...xs].sort((a, b) => a - b)[Math.min(xs.length - 1, Math.floor(p * xs.length))];
 const say = (what, xs) => console.log(`${what}: median ${median(xs).toFixed(2)} ms, p90 ${pct(xs, 0.9).toFixed(2)} ms, min ${Math.min(...xs).toFixed(2)} ms (${xs.length})`);
 
 /** In the page: N edits of band 1's R; handler time and the colour panel's reports. */

@@ -9,17 +9,9 @@
 import { readFileSync } from "node:fs";
 import { startBrowser, openPage, DEMO } from "../lib/harness.mjs";
 import { join, dirname } from "node:path";
+import { arg, median } from "../lib/stats.mjs";
 
-const arg = (name, dflt) => {
-  const i = process.argv.indexOf(name);
-  return i > 0 ? Number(process.argv[i + 1]) : dflt;
-};
 const rounds = arg("--rounds", 40);
-const median = (xs) => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-};
 
 const helix = JSON.parse(readFileSync(join(dirname(DEMO), "helix.json"), "utf8"));
 const bare = { ...helix, systems: undefined };

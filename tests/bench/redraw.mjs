@@ -9,19 +9,10 @@
 import { statSync } from "node:fs";
 import { join } from "node:path";
 import { startBrowser, openPage, DIST } from "../lib/harness.mjs";
+import { arg, median, pct } from "../lib/stats.mjs";
 
-const arg = (name, dflt) => {
-  const i = process.argv.indexOf(name);
-  return i > 0 ? Number(process.argv[i + 1]) : dflt;
-};
 const rounds = arg("--rounds", 60);
 
-const median = (xs) => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-};
-const pct = (xs, p) => [...xs].sort((a, b) => a - b)[Math.min(xs.length - 1, Math.floor(p * xs.length))];
 
 const env = await startBrowser();
 try {

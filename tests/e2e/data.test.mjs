@@ -9,29 +9,13 @@ import assert from "node:assert/strict";
 import { existsSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import { browserTests, openPage, canvasDigest, ROOT } from "../lib/harness.mjs";
-import { cli, docFile, pageLink, savedModel } from "../lib/page.mjs";
+import { cli, docFile, pageLink, savedModel, dropFile } from "../lib/page.mjs";
 
 const env = browserTests();
 const GOOD = join(ROOT, "fixtures", "import", "good");
 const BROKEN = join(ROOT, "fixtures", "import", "broken");
 // The shared public-domain files beside the checkout, or where the workplace keeps them.
 const JCAMP = [join(ROOT, "..", "shared", "data", "jcamp"), "/work/shared/data/jcamp"].find((d) => existsSync(d)) ?? join(ROOT, "..", "shared", "data", "jcamp");
-
-/** Drops a file on the plots, as a file dragged from the desktop arrives. */
-async function dropFile(page, path, name = path.split("/").pop()) {
-  const text = readFileSync(path, "utf8");
-  await page.evaluate(
-    ({ name, text }) => {
-      const dt = new DataTransfer();
-      dt.items.add(new File([text], name, { type: "text/plain" }));
-      const target = document.getElementById("plot-grid");
-      for (const type of ["dragenter", "dragover", "drop"]) {
-        target.dispatchEvent(new DragEvent(type, { dataTransfer: dt, bubbles: true, cancelable: true }));
-      }
-    },
-    { name, text },
-  );
-}
 
 const documentOf = (page) => page.evaluate(() => window.chiroptic.document());
 const rowCount = (page) => page.$$eval("#data-rows > li", (r) => r.length);

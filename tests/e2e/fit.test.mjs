@@ -10,28 +10,13 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { pathToFileURL } from "node:url";
 import { browserTests, openPage, canvasDigest, ROOT, DIST } from "../lib/harness.mjs";
-import { cli, docFile, downloadText, parseCsv, pageLink, savedModel, typeInto, assertClose } from "../lib/page.mjs";
+import { cli, docFile, downloadText, parseCsv, pageLink, savedModel, typeInto, assertClose, dropFile } from "../lib/page.mjs";
 
 const env = browserTests();
 const FIT = join(ROOT, "fixtures", "fit");
 const START = join(FIT, "start.json");
 const CD = join(FIT, "cd.csv");
 const ORD = join(FIT, "ord.csv");
-
-/** Drops a file on the plots, as a file dragged from the desktop arrives. */
-async function dropFile(page, path) {
-  const text = readFileSync(path, "utf8");
-  const name = path.split("/").pop();
-  await page.evaluate(
-    ({ name, text }) => {
-      const dt = new DataTransfer();
-      dt.items.add(new File([text], name, { type: "text/plain" }));
-      const target = document.getElementById("plot-grid");
-      for (const type of ["dragenter", "dragover", "drop"]) target.dispatchEvent(new DragEvent(type, { dataTransfer: dt, bubbles: true, cancelable: true }));
-    },
-    { name, text },
-  );
-}
 
 const documentOf = (page) => page.evaluate(() => window.chiroptic.document());
 

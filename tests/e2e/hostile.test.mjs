@@ -10,27 +10,12 @@ import assert from "node:assert/strict";
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { browserTests, openPage, ROOT } from "../lib/harness.mjs";
-import { enter, plotHashes } from "../lib/page.mjs";
+import { enter, plotHashes, dropBytes } from "../lib/page.mjs";
 
 const env = browserTests();
 const HOSTILE = join(ROOT, "fixtures", "hostile");
 const manifest = JSON.parse(readFileSync(join(HOSTILE, "manifest.json"), "utf8"));
 const docOf = (page) => page.evaluate(() => window.chiroptic.document());
-
-/** Drops a file's bytes on the plots, as a file dragged from the desktop arrives. */
-async function dropBytes(page, name, bytes) {
-  await page.evaluate(
-    ({ name, bytes }) => {
-      const dt = new DataTransfer();
-      dt.items.add(new File([new Uint8Array(bytes)], name, { type: "text/plain" }));
-      const target = document.getElementById("plot-grid");
-      for (const type of ["dragenter", "dragover", "drop"]) {
-        target.dispatchEvent(new DragEvent(type, { dataTransfer: dt, bubbles: true, cancelable: true }));
-      }
-    },
-    { name, bytes: [...bytes] },
-  );
-}
 
 /** Markup a hostile file might have injected: counted before and after. */
 const markupCount = (page) => page.evaluate(() => document.querySelectorAll("script, img, iframe, object, embed, b").length);

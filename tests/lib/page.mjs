@@ -164,3 +164,28 @@ export async function messageFor(page, selector) {
     return ids.map((id) => document.getElementById(id)?.textContent ?? "").join(" ").trim();
   });
 }
+
+/**
+ * Drops a file on the plots as a person drags one from the desktop
+ * (dragenter, dragover, drop with a DataTransfer holding the file).
+ * `content` is text or bytes.
+ */
+export async function dropBytes(page, name, content) {
+  const bytes = typeof content === "string" ? [...new TextEncoder().encode(content)] : [...content];
+  await page.evaluate(
+    ({ name, bytes }) => {
+      const dt = new DataTransfer();
+      dt.items.add(new File([new Uint8Array(bytes)], name, { type: "text/plain" }));
+      const target = document.getElementById("plot-grid");
+      for (const type of ["dragenter", "dragover", "drop"]) {
+        target.dispatchEvent(new DragEvent(type, { dataTransfer: dt, bubbles: true, cancelable: true }));
+      }
+    },
+    { name, bytes },
+  );
+}
+
+/** Drops the file at `path` on the plots (see `dropBytes`). */
+export async function dropFile(page, path, name = path.split("/").pop()) {
+  await dropBytes(page, name, readFileSync(path));
+}

@@ -98,6 +98,15 @@ impl GeometryField {
             GeometryField::Twist => Target::Twist(system),
         }
     }
+
+    /// The geometry field a target sets, if it sets one.
+    fn of(t: Target) -> Option<GeometryField> {
+        match t {
+            Target::Distance(_) => Some(GeometryField::Distance),
+            Target::Twist(_) => Some(GeometryField::Twist),
+            _ => None,
+        }
+    }
 }
 
 /// The names `fit.free` and `--free` accept, for messages.
@@ -280,7 +289,7 @@ fn parameters(doc: &Document, model: &Model, settings: &FitDoc, sets: &[DataSet]
         }
     }
     for g in &free_geometry {
-        if !out.iter().any(|p| p.target == g.target(p_system(p.target)) && matches!(p.mode, Mode::Free { .. })) {
+        if !out.iter().any(|p| GeometryField::of(p.target) == Some(*g) && matches!(p.mode, Mode::Free { .. })) {
             return Err(Error::new(
                 ErrorKind::OutOfRange,
                 "fit.free",
@@ -398,14 +407,6 @@ fn parameter_mode(doc: &Document, model: &Model, p: &FitParameterDoc, field: Fie
     }
     let _ = model;
     Ok(Mode::Free { min, max })
-}
-
-/// The system a geometry target belongs to (0 for any other target).
-fn p_system(t: Target) -> usize {
-    match t {
-        Target::Distance(s) | Target::Twist(s) => s,
-        _ => 0,
-    }
 }
 
 /// A geometry parameter's own mode: fixed, or free within bounds (angstrom,

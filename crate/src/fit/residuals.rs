@@ -53,7 +53,9 @@ pub struct FitProblem {
     pub set_count: usize,
     /// The coupled systems' share of each point (see [`CoupledTerm`]).
     coupled: Vec<CoupledTerm>,
-    /// The solvent's index at each point (for screened coupling).
+    /// Each point's wavenumber and the solvent's index there, for the
+    /// coupled systems' response (empty when there are none).
+    point_nu: Vec<f64>,
     n_solvent: Vec<f64>,
 }
 
@@ -132,9 +134,16 @@ impl FitProblem {
         let set_count = obs.sets.len() + usize::from(!obs.readings.is_empty());
         let set_columns = (0..set_count).map(|s| (index.get(&Target::Offset(s)).copied(), index.get(&Target::Scale(s)).copied())).collect();
         let shift = index.get(&Target::Shift).copied();
-        let nu: Vec<f64> = points.iter().map(|p| p.nu).collect();
-        let n_solvent = crate::spectra::solvent_index(model, &nu).map_err(|e| e.to_string())?;
-        let mut problem = FitProblem { layout, kinds, points, bands, shift, set_columns, set_count, coupled: Vec::new(), n_solvent };
+        // Only a coupled system needs the solvent's index (its screening).
+        let (point_nu, n_solvent) = if doc.systems.is_empty() {
+            (Vec::new(), Vec::new())
+        } else {
+            let nu: Vec<f64> = points.iter().map(|p| p.nu).collect();
+            let n = crate::spectra::solvent_index(model, &nu).map_err(|e| e.to_string())?;
+            (nu, n)
+        };
+        let mut problem =
+            FitProblem { layout, kinds, points, bands, shift, set_columns, set_count, coupled: Vec::new(), point_nu, n_solvent };
         for (s, system) in doc.systems.iter().enumerate() {
             let distance = index.get(&Target::Distance(s)).copied();
             let twist = index.get(&Target::Twist(s)).copied();
@@ -164,8 +173,7 @@ impl FitProblem {
             crate::coupled::geometry::set_distance_and_twist(&mut doc, values[c] + step.0, twist);
         }
         let system = crate::coupled::System::from_doc(term.index, &doc).map_err(|e| e.to_string())?;
-        let nu: Vec<f64> = self.points.iter().map(|p| p.nu).collect();
-        let (chiral, mean) = system.response(&nu, &self.n_solvent).map_err(|e| e.to_string())?;
+        let (chiral, mean) = system.response(&self.point_nu, &self.n_solvent).map_err(|e| e.to_string())?;
         Ok(self
             .points
             .iter()
@@ -187,11 +195,15 @@ impl FitProblem {
         let mut columns = Vec::new();
         let nan = || vec![f64::NAN; self.points.len()];
         for term in &self.coupled {
-            let parts = match &term.fixed {
-                Some(p) => p.clone(),
-                None => self.coupled_parts(term, values, (0.0, 0.0)).unwrap_or_else(|_| nan()),
+            let moved;
+            let parts: &[f64] = match &term.fixed {
+                Some(p) => p,
+                None => {
+                    moved = self.coupled_parts(term, values, (0.0, 0.0)).unwrap_or_else(|_| nan());
+                    &moved
+                }
             };
-            for (t, p) in total.iter_mut().zip(&parts) {
+            for (t, p) in total.iter_mut().zip(parts) {
                 *t += p;
             }
             if !derivatives || term.fixed.is_some() {

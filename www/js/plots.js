@@ -121,7 +121,7 @@ function renderKeys(keys) {
  * the values are read once per theme.
  */
 const themeColours = { dark: null, values: new Map() };
-function cssVar(name) {
+export function cssVar(name) {
   if (themeColours.dark !== state.options.dark) {
     themeColours.dark = state.options.dark;
     themeColours.values.clear();

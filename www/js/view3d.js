@@ -7,6 +7,7 @@
 import { $ } from "./dom.js";
 import { state } from "./state.js";
 import { geometry, shownSystem } from "./coupled.js";
+import { cssVar } from "./plots.js";
 
 const HEIGHT_PX = 220;
 /** Degrees turned per pixel dragged, and per arrow key. */
@@ -64,10 +65,10 @@ function draw() {
   }
   const ctx = canvas.getContext("2d");
   ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
-  const css = getComputedStyle(canvas);
-  const ink = css.getPropertyValue("--ink").trim() || "#000";
-  const muted = css.getPropertyValue("--muted").trim() || "#666";
-  const accent = css.getPropertyValue("--accent").trim() || "#06c";
+  // The theme's colours, read once per theme (see plots.js).
+  const ink = cssVar("--ink") || "#000";
+  const muted = cssVar("--muted") || "#666";
+  const accent = cssVar("--accent") || "#06c";
   ctx.clearRect(0, 0, w, h);
 
   const g = geometry();

@@ -35,6 +35,118 @@ pub struct Document {
     /// Coupled chromophores (see `coupled`), added to the bands' spectra.
     #[serde(default, skip_serializing_if = "Vec::is_empty")]
     pub systems: Vec<SystemDoc>,
+    /// Computed excited states (see `states`), broadened and added to the
+    /// bands' spectra.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub states: Option<StatesDoc>,
+}
+
+/// Computed excited states: conformers with their transitions, the
+/// temperature of their Boltzmann populations and how they are broadened.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct StatesDoc {
+    #[serde(default = "room_temperature")]
+    pub temperature_k: f64,
+    #[serde(default)]
+    pub broadening: BroadeningDoc,
+    pub conformers: Vec<ConformerDoc>,
+}
+
+fn room_temperature() -> f64 {
+    crate::states::DEFAULT_TEMPERATURE_K
+}
+
+fn gaussian_name() -> String {
+    "gaussian".into()
+}
+
+fn usual_state_width() -> f64 {
+    crate::states::DEFAULT_FWHM_EV
+}
+
+fn is_one(v: &f64) -> bool {
+    *v == 1.0
+}
+
+/// How each transition becomes a band: one shape and width for all, a
+/// shift of every excitation energy and a scale of every strength.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct BroadeningDoc {
+    /// `gaussian` (the default), `lorentz` or `voigt`.
+    #[serde(default = "gaussian_name")]
+    pub shape: String,
+    /// Full width at half maximum (of a Voigt's Gaussian part), eV.
+    #[serde(default = "usual_state_width")]
+    pub fwhm_ev: f64,
+    /// A Voigt band's Lorentzian FWHM, eV.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub lorentz_fwhm_ev: Option<f64>,
+    #[serde(default, skip_serializing_if = "is_zero")]
+    pub shift_ev: f64,
+    #[serde(default = "one", skip_serializing_if = "is_one")]
+    pub scale: f64,
+    /// Use the velocity-form rotatory strengths (else the length form).
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    pub velocity_form: bool,
+}
+
+impl Default for BroadeningDoc {
+    fn default() -> BroadeningDoc {
+        BroadeningDoc {
+            shape: gaussian_name(),
+            fwhm_ev: usual_state_width(),
+            lorentz_fwhm_ev: None,
+            shift_ev: 0.0,
+            scale: 1.0,
+            velocity_form: false,
+        }
+    }
+}
+
+/// One conformer: a relative energy in the unit it was given in, or a
+/// population; optionally a share set by hand (0..1) in place of its
+/// Boltzmann share, and switched off.
+#[derive(Debug, Clone, PartialEq, Default, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ConformerDoc {
+    pub name: String,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub relative_energy_kcal_per_mol: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub relative_energy_kj_per_mol: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub relative_energy_ev: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub relative_energy_hartree: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub population: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub share: Option<f64>,
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    pub off: bool,
+    pub transitions: Vec<ExcitedStateDoc>,
+}
+
+/// One computed transition: its excitation energy (eV) or wavelength (nm),
+/// its oscillator strength and/or dipole strength, and its rotatory strength
+/// in the length and/or velocity form (1e-40 cgs).
+#[derive(Debug, Clone, PartialEq, Default, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ExcitedStateDoc {
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub energy_ev: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub wavelength_nm: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub oscillator_strength: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub dipole_strength_debye2: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub rotatory_length_1e40_cgs: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub rotatory_velocity_1e40_cgs: Option<f64>,
 }
 
 /// Chromophores whose transitions couple through the dipole field (DeVoe's

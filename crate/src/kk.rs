@@ -182,6 +182,7 @@ fn outside_model(set: &crate::data::DataSet, bands: &[crate::model::Band]) -> cr
         sample: crate::model::Sample { context: set.context, solvent: crate::solvent::Solvent::Constant(1.0) },
         bands: bands.to_vec(),
         systems: Vec::new(),
+        states: None,
     }
 }
 

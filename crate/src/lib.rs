@@ -5,6 +5,7 @@
 //! (validated, canonical units) -> [`spectra::evaluate`] on a grid ->
 //! [`spectra::Spectra`] -> CSV, figures, the page.
 
+pub mod band_sum;
 pub mod colour;
 pub mod coupled;
 pub mod data;

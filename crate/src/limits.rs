@@ -28,6 +28,10 @@ pub const MAX_LINK_CHARS: usize = 100_000;
 pub const MAX_INFLATED_BYTES: usize = 2 * 1024 * 1024;
 /// Most transitions a computed-states file may hold (far beyond any computation).
 pub const MAX_TRANSITIONS: usize = 100_000;
+/// Most conformers and computed transitions a document's `states` may hold:
+/// 5000 broaden onto a page's grid in a few tens of milliseconds.
+pub const MAX_CONFORMERS: usize = 500;
+pub const MAX_DOCUMENT_TRANSITIONS: usize = 5000;
 /// Most fit starts and iterations a document may ask for.
 pub const MAX_STARTS: u32 = 256;
 pub const MAX_ITERATIONS: u32 = 100_000;

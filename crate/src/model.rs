@@ -39,6 +39,8 @@ pub struct Model {
     pub bands: Vec<Band>,
     /// Coupled chromophores, added to the bands' spectra (see `coupled`).
     pub systems: Vec<crate::coupled::System>,
+    /// Computed excited states, broadened (see `states`).
+    pub states: Option<crate::states::ComputedStates>,
 }
 
 impl Model {
@@ -50,12 +52,25 @@ impl Model {
         let sample = sample_from_doc(&doc.sample)?;
         let bands = doc.bands.iter().enumerate().map(|(i, b)| band_from_doc(&format!("bands[{i}]"), i, b)).collect::<Result<Vec<_>>>()?;
         let systems = crate::coupled::System::all_from_docs(&doc.systems)?;
-        Ok(Model { sample, bands, systems })
+        let states = doc.states.as_ref().map(crate::states::ComputedStates::from_doc).transpose()?;
+        Ok(Model { sample, bands, systems, states })
     }
 
-    /// Band centres in cm^-1 (the coupled systems' transitions after the bands).
+    /// The model with every band's (and computed state's) width times k.
+    pub fn widened(&self, k: f64) -> Model {
+        let mut m = self.clone();
+        let states = m.states.iter_mut().flat_map(|s| s.bands.iter_mut());
+        for b in m.bands.iter_mut().chain(states) {
+            b.lineshape = b.lineshape.widened(k);
+        }
+        m
+    }
+
+    /// Band centres in cm^-1 (the coupled systems' transitions after the
+    /// bands, then the computed states').
     pub fn centers(&self) -> impl Iterator<Item = f64> + '_ {
-        self.bands.iter().map(|b| b.lineshape.center()).chain(self.systems.iter().flat_map(|s| s.centers()))
+        let states = self.states.iter().flat_map(|s| s.bands.iter().map(|b| b.lineshape.center()));
+        self.bands.iter().map(|b| b.lineshape.center()).chain(self.systems.iter().flat_map(|s| s.centers())).chain(states)
     }
 }
 

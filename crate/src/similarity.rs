@@ -4,7 +4,94 @@
 //! even energy grid; and the energy shift (and width) that maximise it. The
 //! mirror image of a computed configuration has S of the opposite sign.
 
+use crate::error::{Error, ErrorKind, Result};
+use crate::model::Model;
 use crate::processing::interpolate;
+use crate::units::AxisUnit;
+
+/// Grid step of the comparison, eV.
+pub const COMPARE_STEP_EV: f64 = 0.005;
+/// The shift search range, eV.
+pub const MAX_SHIFT_EV: f64 = 1.0;
+/// The scan step of the shift search, eV.
+pub const SHIFT_SCAN_EV: f64 = 0.01;
+
+/// One configuration's best match: S at its best shift (and width factor).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Match {
+    pub score: f64,
+    pub shift_ev: f64,
+    pub width_factor: f64,
+}
+
+/// A model's CD against a measured one: S unshifted, and the best match of
+/// the configuration and of its mirror image, over `range_ev`.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Comparison {
+    pub unshifted: f64,
+    pub computed: Match,
+    pub mirror: Match,
+    pub range_ev: (f64, f64),
+}
+
+/// Compares the model's De with a measured De (at wavenumbers `nu`, any
+/// order) between two wavelengths (nm; None: the data's end), each of the
+/// configuration and its mirror at its own best shift within ±1 eV and,
+/// with `fit_width`, its own best width factor on every band.
+pub fn compare(
+    model: &Model,
+    nu: &[f64],
+    measured_de: &[f64],
+    range_nm: (Option<f64>, Option<f64>),
+    fit_width: bool,
+) -> Result<Comparison> {
+    let ev: Vec<f64> = nu.iter().map(|n| AxisUnit::ElectronVolt.from_wavenumber(*n)).collect();
+    let (lo_nm, hi_nm) = (range_nm.0.unwrap_or(f64::NEG_INFINITY), range_nm.1.unwrap_or(f64::INFINITY));
+    let to_ev = |nm: f64| AxisUnit::ElectronVolt.from_wavenumber(AxisUnit::Nanometre.to_wavenumber(nm));
+    let (e_min, e_max) = (ev.iter().copied().fold(f64::INFINITY, f64::min), ev.iter().copied().fold(f64::NEG_INFINITY, f64::max));
+    let e_lo = e_min.max(if hi_nm.is_finite() { to_ev(hi_nm) } else { e_min });
+    let e_hi = e_max.min(if lo_nm.is_finite() { to_ev(lo_nm) } else { e_max });
+    if e_hi.is_nan() || e_lo.is_nan() || e_hi <= e_lo {
+        return Err(Error::new(ErrorKind::OutOfRange, "range", "the range leaves no measured point"));
+    }
+    let count = ((e_hi - e_lo) / COMPARE_STEP_EV).ceil() as usize + 1;
+    let at: Vec<f64> = (0..count).map(|i| e_lo + (e_hi - e_lo) * i as f64 / (count - 1) as f64).collect();
+    let mut pairs: Vec<(f64, f64)> = ev.iter().copied().zip(measured_de.iter().copied()).collect();
+    pairs.sort_by(|a, b| a.0.total_cmp(&b.0));
+    let (ev_sorted, de_sorted): (Vec<f64>, Vec<f64>) = pairs.into_iter().unzip();
+    let measured: Vec<f64> = at.iter().map(|e| interpolate(&ev_sorted, &de_sorted, *e).unwrap_or(0.0)).collect();
+    // The computed De on a grid wider by the shift range.
+    let g_lo = (e_lo - MAX_SHIFT_EV).max(0.05);
+    let g_count = ((e_hi + MAX_SHIFT_EV - g_lo) / COMPARE_STEP_EV).ceil() as usize + 1;
+    let grid: Vec<f64> = (0..g_count).map(|i| g_lo + COMPARE_STEP_EV * i as f64).collect();
+    let grid_nu: Vec<f64> = grid.iter().map(|e| AxisUnit::ElectronVolt.to_wavenumber(*e)).collect();
+    // Solvent series outside their range do not matter for De: compare on a constant index.
+    let mut plain = model.clone();
+    plain.sample.solvent = crate::solvent::Solvent::Constant(1.0);
+    let computed_at = |k: f64| -> Result<Vec<f64>> { Ok(crate::spectra::evaluate(&plain.widened(k), &grid_nu)?.delta_epsilon) };
+    let computed = computed_at(1.0)?;
+    let unshifted: Vec<f64> = at.iter().map(|e| interpolate(&grid, &computed, *e).unwrap_or(0.0)).collect();
+    let best_for = |sign: f64| -> Result<Match> {
+        if !fit_width {
+            let (shift_ev, score) = best_shift(&grid, &computed, &at, &measured, MAX_SHIFT_EV, SHIFT_SCAN_EV, sign);
+            return Ok(Match { score, shift_ev, width_factor: 1.0 });
+        }
+        let mut failure = None;
+        let (k, _) = best_width(WIDTH_FACTOR_RANGE, |k| match computed_at(k) {
+            Ok(c) => best_shift(&grid, &c, &at, &measured, MAX_SHIFT_EV, SHIFT_SCAN_EV, sign).1,
+            Err(e) => {
+                failure = Some(e);
+                f64::NEG_INFINITY
+            }
+        });
+        if let Some(e) = failure {
+            return Err(e);
+        }
+        let (shift_ev, score) = best_shift(&grid, &computed_at(k)?, &at, &measured, MAX_SHIFT_EV, SHIFT_SCAN_EV, sign);
+        Ok(Match { score, shift_ev, width_factor: k })
+    };
+    Ok(Comparison { unshifted: overlap(&unshifted, &measured), computed: best_for(1.0)?, mirror: best_for(-1.0)?, range_ev: (e_lo, e_hi) })
+}
 
 /// S of two spectra sampled at the same points (even spacing, so the
 /// integrals' weights cancel).

@@ -113,6 +113,17 @@ pub struct Spectra {
     /// Per point: e = epsilon_per_k * k and phi = degrees_per_delta_n * Dn.
     pub epsilon_per_k: Vec<f64>,
     pub degrees_per_delta_n: Vec<f64>,
+    /// The computed states' summed shapes, kept so an edit elsewhere reuses them.
+    pub states: Option<StatesPart>,
+}
+
+/// The broadened computed states' share of the spectra: the sums of their
+/// bands' shapes times their strengths (before the concentration's scale),
+/// with the bands they were made from.
+#[derive(Debug, Clone, PartialEq)]
+pub struct StatesPart {
+    pub bands: Vec<crate::model::Band>,
+    pub sums: crate::band_sum::ShapeSums,
 }
 
 /// Evaluates the model on a grid of wavenumbers (cm^-1).
@@ -188,6 +199,24 @@ pub fn evaluate_reusing(model: &Model, wavenumber_cm1: &[f64], previous: Option<
         }
     }
 
+    // Computed states (states): many bands of one width, summed through nodes.
+    let states = model.states.as_ref().map(|st| {
+        let known = previous.and_then(|p| p.states.as_ref()).filter(|p| p.bands == st.bands);
+        match known {
+            Some(p) => p.clone(),
+            None => StatesPart { bands: st.bands.clone(), sums: crate::band_sum::band_sums(&st.bands, wavenumber_cm1) },
+        }
+    });
+    if let Some(part) = &states {
+        let sums = &part.sums;
+        for i in 0..n {
+            delta_n[i] += chiral_scale * sums.delta_n[i];
+            delta_k[i] += chiral_scale * sums.delta_k[i];
+            dn_mean[i] += mean_scale * sums.mean_n[i];
+            k_mean[i] += mean_scale * sums.mean_k[i];
+        }
+    }
+
     let mean_n: Vec<f64> = n_solvent.iter().zip(&dn_mean).map(|(a, b)| a + b).collect();
     let delta_epsilon: Vec<f64> = delta_k.iter().zip(&eps_per_k).map(|(k, f)| f * k).collect();
     let epsilon: Vec<f64> = k_mean.iter().zip(&eps_per_k).map(|(k, f)| f * k).collect();
@@ -211,6 +240,7 @@ pub fn evaluate_reusing(model: &Model, wavenumber_cm1: &[f64], previous: Option<
         bands: contributions,
         epsilon_per_k: eps_per_k,
         degrees_per_delta_n: deg_per_dn,
+        states,
     })
 }
 

@@ -66,6 +66,7 @@ fn ten_bands(full_precision_widths: bool) -> Document {
         readings: Vec::new(),
         fit: None,
         systems: Vec::new(),
+        states: None,
         chiroptic: 1,
         title: "INVENTED ten-band model".into(),
         sample: SampleDoc {
@@ -283,6 +284,7 @@ fn document() -> impl Strategy<Value = Document> {
             readings: Vec::new(),
             fit: None,
             systems: Vec::new(),
+            states: None,
         })
 }
 

@@ -44,6 +44,7 @@ fn doc(concentration: f64, path_cm: f64, molar_mass: Option<f64>, bands: Vec<Ban
         readings: Vec::new(),
         fit: None,
         systems: Vec::new(),
+        states: None,
     }
 }
 

@@ -162,6 +162,7 @@ pub(super) fn notional_document() -> Document {
         readings: Vec::new(),
         fit: None,
         systems: Vec::new(),
+        states: None,
     }
 }
 

@@ -1,5 +1,5 @@
-//! `states`: transition lists of computed excited states to a document whose
-//! bands are the broadened transitions. `compare`: how well a document's CD
+//! `states`: transition lists of computed excited states to a document that
+//! holds them (its `states` section), broadened as asked. `compare`: how well a document's CD
 //! matches a measured CD, and its mirror image, at the best energy shift.
 
 use super::measured::{read_table, ColumnFlags};
@@ -8,9 +8,7 @@ use crate::data::{data_set_doc, data_sets};
 use crate::document::{Document, SampleDoc, SolventDoc, SourceDoc};
 use crate::error::{Error, ErrorKind};
 use crate::import::{ColumnChoice, Measured};
-use crate::similarity::{best_shift, best_width, overlap, WIDTH_FACTOR_RANGE};
 use crate::states::{self, table, Broadening, Conformer, Gauge};
-use crate::units::AxisUnit;
 use std::path::{Path, PathBuf};
 
 fn bad(origin: &str, kind: ErrorKind, message: impl Into<String>) -> Failure {
@@ -66,14 +64,6 @@ pub fn run_states(o: &StatesOptions, notes: &mut String) -> Result<(), Failure> 
     for (c, p) in conformers.iter().zip(&populations) {
         notes.push_str(&format!("  {:<24} {:6.2} %  ({} transitions)\n", c.name, 100.0 * p, c.transitions.len()));
     }
-    let bands = states::bands(&conformers, &b).map_err(|e| Failure::input("broadening", e))?;
-    if bands.len() > crate::document::MAX_BANDS {
-        return Err(bad(
-            "states",
-            ErrorKind::TooLarge,
-            format!("{} transitions; a document holds at most {}", bands.len(), crate::document::MAX_BANDS),
-        ));
-    }
     let doc = Document {
         chiroptic: crate::document::FORMAT_VERSION,
         title: format!(
@@ -89,12 +79,13 @@ pub fn run_states(o: &StatesOptions, notes: &mut String) -> Result<(), Failure> 
             mean_residue_weight_g_per_mol: None,
             solvent: SolventDoc { constant: Some(1.0), ..SolventDoc::default() },
         },
-        bands,
+        bands: Vec::new(),
         view: None,
         data: Vec::new(),
         readings: Vec::new(),
         fit: None,
         systems: Vec::new(),
+        states: Some(states::doc::to_doc(&conformers, &b)),
     };
     crate::model::Model::from_document(&doc).map_err(|e| Failure::input("broadened model", e))?;
     notes.push_str("note: a truncated sum over computed states is a rough estimate of [α]_D; compare the CD, not the rotation alone\n");
@@ -110,11 +101,6 @@ pub struct CompareOptions<'a> {
     pub fit_width: bool,
 }
 
-/// Grid step of the comparison, eV.
-const COMPARE_STEP_EV: f64 = 0.005;
-/// The shift search range, eV.
-const MAX_SHIFT_EV: f64 = 1.0;
-
 pub fn run_compare(doc_path: &Path, data_path: &Path, flags: &ColumnFlags, o: &CompareOptions, out: &mut Vec<u8>) -> Result<(), Failure> {
     let origin = data_path.display().to_string();
     let (mut doc, model) = load(doc_path)?;
@@ -126,63 +112,19 @@ pub fn run_compare(doc_path: &Path, data_path: &Path, flags: &ColumnFlags, o: &C
     doc.data = vec![data_set_doc("measured", &r, SourceDoc::default())];
     let set = data_sets(&doc, &model).map_err(|e| Failure::input(&origin, e))?.remove(0);
     let de = set.delta_epsilon().map_err(|e| bad(&origin, ErrorKind::MissingField, e.0))?;
-    let ev: Vec<f64> = set.wavenumbers().iter().map(|n| AxisUnit::ElectronVolt.from_wavenumber(*n)).collect();
-    // The range, in eV, and an even grid across it.
-    let (lo_nm, hi_nm) = (o.from_nm.unwrap_or(f64::NEG_INFINITY), o.to_nm.unwrap_or(f64::INFINITY));
-    let to_ev = |nm: f64| AxisUnit::ElectronVolt.from_wavenumber(AxisUnit::Nanometre.to_wavenumber(nm));
-    let (e_min, e_max) = (ev.iter().copied().fold(f64::INFINITY, f64::min), ev.iter().copied().fold(f64::NEG_INFINITY, f64::max));
-    let e_lo = e_min.max(if hi_nm.is_finite() { to_ev(hi_nm) } else { e_min });
-    let e_hi = e_max.min(if lo_nm.is_finite() { to_ev(lo_nm) } else { e_max });
-    if e_hi.is_nan() || e_lo.is_nan() || e_hi <= e_lo {
-        return Err(bad("--from/--to", ErrorKind::OutOfRange, "the range leaves no measured point"));
-    }
-    let count = ((e_hi - e_lo) / COMPARE_STEP_EV).ceil() as usize + 1;
-    let at: Vec<f64> = (0..count).map(|i| e_lo + (e_hi - e_lo) * i as f64 / (count - 1) as f64).collect();
-    let mut pairs: Vec<(f64, f64)> = ev.iter().copied().zip(de.iter().copied()).collect();
-    pairs.sort_by(|a, b| a.0.total_cmp(&b.0));
-    let (ev_sorted, de_sorted): (Vec<f64>, Vec<f64>) = pairs.into_iter().unzip();
-    let measured: Vec<f64> = at.iter().map(|e| crate::processing::interpolate(&ev_sorted, &de_sorted, *e).unwrap_or(0.0)).collect();
-    // The computed De on a grid wider by the shift range.
-    let g_lo = (e_lo - MAX_SHIFT_EV).max(0.05);
-    let g_count = ((e_hi + MAX_SHIFT_EV - g_lo) / COMPARE_STEP_EV).ceil() as usize + 1;
-    let grid: Vec<f64> = (0..g_count).map(|i| g_lo + COMPARE_STEP_EV * i as f64).collect();
-    let nu: Vec<f64> = grid.iter().map(|e| AxisUnit::ElectronVolt.to_wavenumber(*e)).collect();
-    // Solvent series outside their range do not matter for De: compare on a constant index.
-    let mut plain = model.clone();
-    plain.sample.solvent = crate::solvent::Solvent::Constant(1.0);
-    let origin_doc = doc_path.display().to_string();
-    // De of the model with every band's width times k, on the grid.
-    let computed_at = |k: f64| -> Result<Vec<f64>, Failure> {
-        let mut m = plain.clone();
-        for b in &mut m.bands {
-            b.lineshape = b.lineshape.widened(k);
-        }
-        Ok(crate::spectra::evaluate(&m, &nu).map_err(|e| Failure::input(&origin_doc, e))?.delta_epsilon)
-    };
-    let computed = computed_at(1.0)?;
-    let unshifted: Vec<f64> = at.iter().map(|e| crate::processing::interpolate(&grid, &computed, *e).unwrap_or(0.0)).collect();
-    let s0 = overlap(&unshifted, &measured);
-    let best_for = |sign: f64| -> Result<(f64, f64, f64), Failure> {
-        if !o.fit_width {
-            let (shift, s) = best_shift(&grid, &computed, &at, &measured, MAX_SHIFT_EV, 0.01, sign);
-            return Ok((shift, s, 1.0));
-        }
-        let mut failure = None;
-        let (k, _) = best_width(WIDTH_FACTOR_RANGE, |k| match computed_at(k) {
-            Ok(c) => best_shift(&grid, &c, &at, &measured, MAX_SHIFT_EV, 0.01, sign).1,
-            Err(e) => {
-                failure = Some(e);
-                f64::NEG_INFINITY
-            }
-        });
-        if let Some(e) = failure {
-            return Err(e);
-        }
-        let (shift, s) = best_shift(&grid, &computed_at(k)?, &at, &measured, MAX_SHIFT_EV, 0.01, sign);
-        Ok((shift, s, k))
-    };
-    let (shift, s, k) = best_for(1.0)?;
-    let (mirror_shift, s_mirror, k_mirror) = best_for(-1.0)?;
+    let range = (o.from_nm, o.to_nm);
+    let c = crate::similarity::compare(&model, &set.wavenumbers(), &de, range, o.fit_width).map_err(|e| Failure::input(&origin, e))?;
+    let (s0, shift, s, k, mirror_shift, s_mirror, k_mirror, e_lo, e_hi) = (
+        c.unshifted,
+        c.computed.shift_ev,
+        c.computed.score,
+        c.computed.width_factor,
+        c.mirror.shift_ev,
+        c.mirror.score,
+        c.mirror.width_factor,
+        c.range_ev.0,
+        c.range_ev.1,
+    );
     // Each is scored at its own best shift (and width).
     let width_text = |k: f64| if o.fit_width { format!(", widths ×{k:.2}") } else { String::new() };
     let computed_text = format!("{s:.2} (shift {shift:+.2} eV{})", width_text(k));

@@ -10,6 +10,7 @@
 //! R and D are multiplied by ((n^2 + 2)/3) at the solvent's index, as
 //! physics.md describes for computed (vacuum) strengths compared with solution.
 
+pub mod doc;
 pub mod table;
 
 use crate::document::BandDoc;
@@ -39,6 +40,8 @@ pub struct Conformer {
     pub energy: ConformerEnergy,
     pub transitions: Vec<Transition>,
     pub enabled: bool,
+    /// A share (0..1) set by hand in place of the computed one.
+    pub share: Option<f64>,
 }
 
 /// Which rotatory strength to use.
@@ -94,8 +97,45 @@ pub fn fwhm_from_sigma(sigma: f64) -> f64 {
 
 /// Populations (summing to 1 over the enabled conformers): given ones as
 /// given (normalised), relative energies by Boltzmann, p_i ∝ exp(-E_i/(k T)).
-/// A list may not mix the two.
+/// A list may not mix the two. A conformer with a share set by hand takes
+/// it, and the others divide the rest in their own proportions; when every
+/// enabled conformer has one, the shares are normalised.
 pub fn populations(conformers: &[Conformer], temperature_k: f64) -> Result<Vec<f64>> {
+    let enabled: Vec<bool> = conformers.iter().map(|c| c.enabled).collect();
+    let computed = computed_populations(conformers, &enabled, temperature_k);
+    let set: Vec<Option<f64>> = conformers.iter().map(|c| c.share.filter(|_| c.enabled)).collect();
+    if set.iter().all(Option::is_none) {
+        return computed;
+    }
+    for (c, s) in conformers.iter().zip(&set) {
+        if let Some(s) = s {
+            if !(0.0..=1.0).contains(s) {
+                return Err(Error::new(ErrorKind::OutOfRange, "share", format!("the share of {} must lie in 0..1 (got {s})", c.name)));
+            }
+        }
+    }
+    let fixed: f64 = set.iter().flatten().sum();
+    let rest_enabled = conformers.iter().zip(&set).any(|(c, s)| c.enabled && s.is_none());
+    if !rest_enabled {
+        if fixed <= 0.0 {
+            return Err(Error::new(ErrorKind::OutOfRange, "conformers", "every share is zero: no conformer is left"));
+        }
+        return Ok(set.iter().map(|s| s.unwrap_or(0.0) / fixed).collect());
+    }
+    if fixed > 1.0 + 1e-12 {
+        return Err(Error::new(
+            ErrorKind::OutOfRange,
+            "share",
+            format!("the shares set by hand add to {:.1} %, more than 100 %", 100.0 * fixed),
+        ));
+    }
+    // The others' proportions, as if the set ones were switched off.
+    let others: Vec<bool> = conformers.iter().zip(&set).map(|(c, s)| c.enabled && s.is_none()).collect();
+    let p = computed_populations(conformers, &others, temperature_k)?;
+    Ok(set.iter().zip(&p).map(|(s, p)| s.unwrap_or((1.0 - fixed).max(0.0) * p)).collect())
+}
+
+fn computed_populations(conformers: &[Conformer], enabled: &[bool], temperature_k: f64) -> Result<Vec<f64>> {
     if !(temperature_k > 0.0 && temperature_k.is_finite()) {
         return Err(Error::new(ErrorKind::NotPositive, "temperature", "the temperature must be positive (K)"));
     }
@@ -115,11 +155,12 @@ pub fn populations(conformers: &[Conformer], temperature_k: f64) -> Result<Vec<f
             ConformerEnergy::Population(_) => 0.0,
         })
         .collect();
-    let lowest = conformers.iter().zip(&energies).filter(|(c, _)| c.enabled).map(|(_, e)| *e).fold(f64::INFINITY, f64::min);
+    let lowest = enabled.iter().zip(&energies).filter(|(on, _)| **on).map(|(_, e)| *e).fold(f64::INFINITY, f64::min);
     let weights: Vec<f64> = conformers
         .iter()
         .zip(&energies)
-        .map(|(c, e)| match (c.enabled, c.energy) {
+        .zip(enabled)
+        .map(|((c, e), on)| match (*on, c.energy) {
             (false, _) => 0.0,
             (true, ConformerEnergy::Population(p)) => p,
             (true, ConformerEnergy::Relative { .. }) => (-(e - lowest) / kt).exp(),
@@ -143,13 +184,43 @@ pub fn dipole_strength(t: &Transition) -> Option<f64> {
 /// The bands of the broadened spectrum, one per transition of every enabled
 /// conformer with a positive population.
 pub fn bands(conformers: &[Conformer], b: &Broadening) -> Result<Vec<BandDoc>> {
+    Ok(owned_bands(conformers, b)?.into_iter().map(|(_, _, band)| band).collect())
+}
+
+/// A document's states made ready for the spectra: one band per transition
+/// (its strengths weighted by population and scale), each with the
+/// conformer and transition it comes from, and the populations.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ComputedStates {
+    pub bands: Vec<crate::model::Band>,
+    /// (conformer, transition) of each band.
+    pub origin: Vec<(usize, usize)>,
+    pub populations: Vec<f64>,
+}
+
+impl ComputedStates {
+    pub fn from_doc(section: &crate::document::StatesDoc) -> Result<ComputedStates> {
+        let (conformers, b) = doc::from_doc(section)?;
+        let populations = populations(&conformers, b.temperature_k)?;
+        let mut bands = Vec::new();
+        let mut origin = Vec::new();
+        for (c, k, band) in owned_bands(&conformers, &b)? {
+            let at = format!("states.conformers[{c}].transitions[{k}]");
+            bands.push(crate::model::band_from_doc(&at, bands.len(), &band)?);
+            origin.push((c, k));
+        }
+        Ok(ComputedStates { bands, origin, populations })
+    }
+}
+
+fn owned_bands(conformers: &[Conformer], b: &Broadening) -> Result<Vec<(usize, usize, BandDoc)>> {
     let p = populations(conformers, b.temperature_k)?;
     for (name, v) in [("fwhm_ev", b.fwhm_ev), ("scale", b.scale), ("local_field", b.local_field)] {
         crate::error::positive(name, v, name)?;
     }
     crate::error::finite("shift_ev", b.shift_ev)?;
     let mut out = Vec::new();
-    for (c, pop) in conformers.iter().zip(&p) {
+    for (ci, (c, pop)) in conformers.iter().zip(&p).enumerate() {
         if *pop == 0.0 {
             continue;
         }
@@ -175,15 +246,19 @@ pub fn bands(conformers: &[Conformer], b: &Broadening) -> Result<Vec<BandDoc>> {
             // weak state can break it by rounding.
             let r = r * weight;
             let d = (d * weight).max(crate::model::dissymmetry_limited_dipole_strength(r));
-            out.push(BandDoc {
-                name: format!("{} {} {:.3} eV", c.name, k + 1, t.energy_ev),
-                shape: b.shape.clone(),
-                center_nm: AxisUnit::Nanometre.from_wavenumber(nu),
-                fwhm_cm1: AxisUnit::ElectronVolt.width_to_wavenumber(b.fwhm_ev, nu),
-                lorentz_fwhm_cm1: (b.shape == "voigt").then(|| AxisUnit::ElectronVolt.width_to_wavenumber(b.lorentz_fwhm_ev, nu)),
-                rotatory_strength_1e40_cgs: r,
-                dipole_strength_debye2: d,
-            });
+            out.push((
+                ci,
+                k,
+                BandDoc {
+                    name: format!("{} {} {:.3} eV", c.name, k + 1, t.energy_ev),
+                    shape: b.shape.clone(),
+                    center_nm: AxisUnit::Nanometre.from_wavenumber(nu),
+                    fwhm_cm1: AxisUnit::ElectronVolt.width_to_wavenumber(b.fwhm_ev, nu),
+                    lorentz_fwhm_cm1: (b.shape == "voigt").then(|| AxisUnit::ElectronVolt.width_to_wavenumber(b.lorentz_fwhm_ev, nu)),
+                    rotatory_strength_1e40_cgs: r,
+                    dipole_strength_debye2: d,
+                },
+            ));
         }
     }
     Ok(out)

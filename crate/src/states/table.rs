@@ -136,7 +136,7 @@ pub fn parse(text: &str) -> Result<Vec<Conformer>, TableError> {
         let keyword = line.get(..9).is_some_and(|p| p.eq_ignore_ascii_case("conformer"));
         if let Some(rest) = line.get(9..).filter(|r| keyword && r.starts_with([' ', ':', '\t'])) {
             let (name, energy) = conformer_line(rest.trim_start_matches([':', ' ', '\t']), line_no)?;
-            conformers.push(Conformer { name, energy, transitions: Vec::new(), enabled: true });
+            conformers.push(Conformer { name, energy, transitions: Vec::new(), enabled: true, share: None });
             columns = None;
             continue;
         }

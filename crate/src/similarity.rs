@@ -34,6 +34,31 @@ pub struct Comparison {
     pub range_ev: (f64, f64),
 }
 
+/// Below this best score neither configuration is said to match (common
+/// practice puts a convincing assignment well above it).
+pub const MATCH_THRESHOLD: f64 = 0.3;
+
+impl Comparison {
+    /// The verdict in plain words with its numbers, e.g. "the computed
+    /// configuration (R) matches: 0.82 (shift +0.12 eV) against -0.79 (shift
+    /// +0.10 eV) for its mirror image". `label` names the configuration.
+    pub fn verdict(&self, label: &str, fit_width: bool) -> String {
+        let text = |m: &Match| {
+            let width = if fit_width { format!(", widths ×{:.2}", m.width_factor) } else { String::new() };
+            format!("{:.2} (shift {:+.2} eV{width})", m.score, m.shift_ev)
+        };
+        let (computed, mirror) = (text(&self.computed), text(&self.mirror));
+        let label = if label.is_empty() { String::new() } else { format!(" ({label})") };
+        if self.computed.score.max(self.mirror.score) < MATCH_THRESHOLD {
+            format!("neither the computed configuration{label}, {computed}, nor its mirror image, {mirror}, matches well")
+        } else if self.computed.score >= self.mirror.score {
+            format!("the computed configuration{label} matches: {computed} against {mirror} for its mirror image")
+        } else {
+            format!("the mirror image of the computed configuration{label} matches: {mirror} against {computed} for the computed one")
+        }
+    }
+}
+
 /// Compares the model's De with a measured De (at wavenumbers `nu`, any
 /// order) between two wavelengths (nm; None: the data's end), each of the
 /// configuration and its mirror at its own best shift within ±1 eV and,

@@ -114,6 +114,7 @@ pub fn run_compare(doc_path: &Path, data_path: &Path, flags: &ColumnFlags, o: &C
     let de = set.delta_epsilon().map_err(|e| bad(&origin, ErrorKind::MissingField, e.0))?;
     let range = (o.from_nm, o.to_nm);
     let c = crate::similarity::compare(&model, &set.wavenumbers(), &de, range, o.fit_width).map_err(|e| Failure::input(&origin, e))?;
+    let verdict = c.verdict(o.label, o.fit_width);
     let (s0, shift, s, k, mirror_shift, s_mirror, k_mirror, e_lo, e_hi) = (
         c.unshifted,
         c.computed.shift_ev,
@@ -125,18 +126,6 @@ pub fn run_compare(doc_path: &Path, data_path: &Path, flags: &ColumnFlags, o: &C
         c.range_ev.0,
         c.range_ev.1,
     );
-    // Each is scored at its own best shift (and width).
-    let width_text = |k: f64| if o.fit_width { format!(", widths ×{k:.2}") } else { String::new() };
-    let computed_text = format!("{s:.2} (shift {shift:+.2} eV{})", width_text(k));
-    let mirror_text = format!("{s_mirror:.2} (shift {mirror_shift:+.2} eV{})", width_text(k_mirror));
-    let label = if o.label.is_empty() { String::new() } else { format!(" ({})", o.label) };
-    let verdict = if s.max(s_mirror) < 0.3 {
-        format!("neither the computed configuration{label}, {computed_text}, nor its mirror image, {mirror_text}, matches well")
-    } else if s >= s_mirror {
-        format!("the computed configuration{label} matches: {computed_text} against {mirror_text} for its mirror image")
-    } else {
-        format!("the mirror image of the computed configuration{label} matches: {mirror_text} against {computed_text} for the computed one")
-    };
     let widths = if o.fit_width { format!("best_width_factor,{k},{k_mirror}\n") } else { String::new() };
     let text = format!(
         "quantity,computed,mirror\nsimilarity_unshifted,{},{}\nsimilarity_best,{},{}\nbest_shift_ev,{},{}\n{widths}# {verdict} (range {:.3}-{:.3} eV; S = ∫ a b dE / sqrt(∫ a² dE ∫ b² dE))\n",

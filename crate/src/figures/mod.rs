@@ -25,6 +25,7 @@ mod draw;
 mod layout;
 mod points;
 mod scale;
+mod sticks;
 mod style;
 mod traces;
 
@@ -256,7 +257,8 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, req: &PlotRequest
     }
     let (y_range, y2_range) = value_ranges(req, &sums, &bands, &visible);
     let sets = points::on_plot(req);
-    let y_range = if req.y_range.is_some() { y_range } else { points::widen(y_range, &sets, (lo, hi)) };
+    let sticks = sticks::sticks(req);
+    let y_range = if req.y_range.is_some() { y_range } else { sticks::widen(points::widen(y_range, &sets, (lo, hi)), &sticks, (lo, hi)) };
     let layout = Layout::new(area.dim_in_pixel(), req, &theme);
     let x = XAxis::new((lo, hi), req.x_range.0 > req.x_range.1, layout.x_ticks());
     let y = AxisScale::new(y_range, layout.y_ticks());
@@ -273,6 +275,7 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, req: &PlotRequest
     let mut chart = draw::chart(&main, &layout, &x, &y, y2.as_ref())?;
     draw::mesh(&mut chart, &layout, &theme, (&x, req.axis), (&y, req.y_label()), y2.as_ref())?;
     draw::zero_line(&mut chart, &layout, &theme, &x, &y)?;
+    sticks::draw(&mut chart, &layout, &theme, &sticks, &x, &y)?;
     let at = Placement { xs: &xs, visible: &visible, x: &x, y: &y, y2: y2.as_ref(), legend: req.legend };
     let keyed = draw::traces(&mut chart, &layout, &sums, &bands, &at)?;
     points::draw_sets(&mut chart, &layout, &theme, &sets, &x, &y, |s| Some(&s.y))?;

@@ -17,6 +17,7 @@ mod coupled;
 mod data;
 mod fit;
 mod reply;
+mod states;
 mod workbench;
 
 pub use catalog::catalog;

@@ -32,14 +32,8 @@ impl ShapeSums {
     fn add_bands(&mut self, bands: &[Band], nu: &[f64]) {
         let ln_nu = ln_grid(nu);
         for b in bands {
-            let (r, d) = (b.rotatory_strength_esu2_cm2, b.dipole_strength_esu2_cm2);
-            let (shape, mean_re) = b.lineshape.values_with_mean(nu, &ln_nu);
-            for (i, (s, m)) in shape.iter().zip(&mean_re).enumerate() {
-                self.delta_n[i] += r * s.re;
-                self.delta_k[i] += r * s.im;
-                self.mean_n[i] += d * m;
-                self.mean_k[i] += d * s.im;
-            }
+            let sums = [&mut self.delta_n[..], &mut self.delta_k[..], &mut self.mean_n[..], &mut self.mean_k[..]];
+            b.lineshape.accumulate(nu, &ln_nu, b.rotatory_strength_esu2_cm2, b.dipole_strength_esu2_cm2, sums);
         }
     }
 }
@@ -78,7 +72,7 @@ pub fn band_sums(bands: &[Band], nu: &[f64]) -> ShapeSums {
     let node_count = panels * (per_panel - 1) as f64 + 1.0;
     // Interpolating costs about a band's evaluation per point; the nodes
     // pay off only when they are far fewer than the points.
-    if !(node_count * 2.0 < nu.len() as f64) || bands.len() < 2 {
+    if node_count * 2.0 >= nu.len() as f64 || bands.len() < 2 {
         sums.add_bands(bands, nu);
         return sums;
     }

@@ -149,7 +149,10 @@ pub const MAX_DISSYMMETRY: f64 = 2.0;
 /// transition's), `i` its index for a default name.
 pub(crate) fn band_from_doc(at: &str, i: usize, b: &BandDoc) -> Result<Band> {
     let field = |name: &str| format!("{at}.{name}");
-    let center_nm = finite(&field("center_nm"), b.center_nm)?;
+    // The field's path is made only for a refusal (a thousand computed
+    // states are read on every edit).
+    let finite_at = |name: &str, v: f64| if v.is_finite() { Ok(v) } else { finite(&field(name), v) };
+    let center_nm = finite_at("center_nm", b.center_nm)?;
     if !(MIN_CENTER_NM..=MAX_CENTER_NM).contains(&center_nm) {
         return Err(Error::new(
             ErrorKind::OutOfRange,
@@ -158,7 +161,7 @@ pub(crate) fn band_from_doc(at: &str, i: usize, b: &BandDoc) -> Result<Band> {
         ));
     }
     let center = AxisUnit::Nanometre.to_wavenumber(center_nm);
-    let fwhm = positive(&field("fwhm_cm1"), b.fwhm_cm1, "width")?;
+    let fwhm = if b.fwhm_cm1 > 0.0 && b.fwhm_cm1.is_finite() { b.fwhm_cm1 } else { positive(&field("fwhm_cm1"), b.fwhm_cm1, "width")? };
     if fwhm >= center {
         return Err(Error::new(
             ErrorKind::OutOfRange,
@@ -173,7 +176,7 @@ pub(crate) fn band_from_doc(at: &str, i: usize, b: &BandDoc) -> Result<Band> {
             let lf = b
                 .lorentz_fwhm_cm1
                 .ok_or_else(|| Error::new(ErrorKind::MissingField, field("lorentz_fwhm_cm1"), "a voigt band needs its Lorentzian width"))?;
-            finite(&field("lorentz_fwhm_cm1"), lf)?;
+            finite_at("lorentz_fwhm_cm1", lf)?;
             if lf < 0.0 || lf >= center {
                 return Err(Error::new(
                     ErrorKind::OutOfRange,
@@ -191,8 +194,8 @@ pub(crate) fn band_from_doc(at: &str, i: usize, b: &BandDoc) -> Result<Band> {
             ))
         }
     };
-    let r = finite(&field("rotatory_strength_1e40_cgs"), b.rotatory_strength_1e40_cgs)?;
-    let d = finite(&field("dipole_strength_debye2"), b.dipole_strength_debye2)?;
+    let r = finite_at("rotatory_strength_1e40_cgs", b.rotatory_strength_1e40_cgs)?;
+    let d = finite_at("dipole_strength_debye2", b.dipole_strength_debye2)?;
     if d < 0.0 {
         return Err(Error::new(
             ErrorKind::NotPositive,

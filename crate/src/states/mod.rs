@@ -184,7 +184,7 @@ pub fn dipole_strength(t: &Transition) -> Option<f64> {
 /// The bands of the broadened spectrum, one per transition of every enabled
 /// conformer with a positive population.
 pub fn bands(conformers: &[Conformer], b: &Broadening) -> Result<Vec<BandDoc>> {
-    Ok(owned_bands(conformers, b)?.into_iter().map(|(_, _, band)| band).collect())
+    Ok(owned_bands(conformers, b, true)?.into_iter().map(|(_, _, band)| band).collect())
 }
 
 /// A document's states made ready for the spectra: one band per transition
@@ -204,16 +204,19 @@ impl ComputedStates {
         let populations = populations(&conformers, b.temperature_k)?;
         let mut bands = Vec::new();
         let mut origin = Vec::new();
-        for (c, k, band) in owned_bands(&conformers, &b)? {
-            let at = format!("states.conformers[{c}].transitions[{k}]");
-            bands.push(crate::model::band_from_doc(&at, bands.len(), &band)?);
+        // Unnamed (the band list does not show them), the field path made
+        // only for an error: a thousand transitions are read on every edit.
+        for (c, k, band) in owned_bands(&conformers, &b, false)? {
+            let placed =
+                |e: Error| Error { field: e.field.replacen("states", &format!("states.conformers[{c}].transitions[{k}]"), 1), ..e };
+            bands.push(crate::model::band_from_doc("states", bands.len(), &band).map_err(placed)?);
             origin.push((c, k));
         }
         Ok(ComputedStates { bands, origin, populations })
     }
 }
 
-fn owned_bands(conformers: &[Conformer], b: &Broadening) -> Result<Vec<(usize, usize, BandDoc)>> {
+fn owned_bands(conformers: &[Conformer], b: &Broadening, named: bool) -> Result<Vec<(usize, usize, BandDoc)>> {
     let p = populations(conformers, b.temperature_k)?;
     for (name, v) in [("fwhm_ev", b.fwhm_ev), ("scale", b.scale), ("local_field", b.local_field)] {
         crate::error::positive(name, v, name)?;
@@ -250,7 +253,7 @@ fn owned_bands(conformers: &[Conformer], b: &Broadening) -> Result<Vec<(usize, u
                 ci,
                 k,
                 BandDoc {
-                    name: format!("{} {} {:.3} eV", c.name, k + 1, t.energy_ev),
+                    name: if named { format!("{} {} {:.3} eV", c.name, k + 1, t.energy_ev) } else { String::new() },
                     shape: b.shape.clone(),
                     center_nm: AxisUnit::Nanometre.from_wavenumber(nu),
                     fwhm_cm1: AxisUnit::ElectronVolt.width_to_wavenumber(b.fwhm_ev, nu),

@@ -453,6 +453,9 @@ fn eval(path: &Path, from: Option<f64>, to: Option<f64>, step: Option<f64>, unit
 
 fn lines(path: &Path, out: &mut Vec<u8>) -> Result<(), Failure> {
     let (_, model) = load(path)?;
+    if model.states.is_some() {
+        eprintln!("chiroptic: note: these rotations include computed states: {}", crate::states::SUM_OVER_STATES_CAUTION);
+    }
     let rows = rotation_at_lines(&model).map_err(|e| Failure::input(&path.display().to_string(), e))?;
     let mut text = String::from("line,wavelength_nm,rotation_deg,specific_rotation_deg_dm-1_(g/mL)-1,molar_rotation_deg_cm2_dmol-1\n");
     for r in rows {

@@ -364,6 +364,10 @@ fn states_and_compare_assign_a_configuration() {
     let out = chiroptic(&["states", &example, "--fwhm-ev", "0.3", "-o", doc.to_str().unwrap()]);
     assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
     assert!(String::from_utf8_lossy(&out.stderr).contains("74.97 %"), "populations printed");
+    // The document holds the transitions; its lamp-line rotations say what they are.
+    let lines = chiroptic(&["lines", doc.to_str().unwrap()]);
+    assert!(lines.status.success() && String::from_utf8_lossy(&lines.stdout).contains("Na D,589.3,"));
+    assert!(String::from_utf8_lossy(&lines.stderr).contains("rough estimate of [α]_D"), "the caution");
     let shifted = dir.join("shifted.json");
     let out = chiroptic(&["states", &example, "--shift-ev", "0.2", "-o", shifted.to_str().unwrap()]);
     assert!(out.status.success());

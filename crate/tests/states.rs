@@ -258,3 +258,32 @@ fn the_states_section_round_trips_and_names_what_is_wrong() {
     let e = Model::from_document(&Document::from_value(voigt).expect("parses")).expect_err("voigt");
     assert!(e.to_string().contains("lorentz_fwhm_ev"), "{e}");
 }
+
+#[test]
+fn each_stick_is_as_tall_as_its_own_band_at_its_centre() {
+    // Two transitions 2 eV apart (their 0.3 eV wide CD bands do not
+    // overlap): on the CD and absorption plots each stick's height is the
+    // spectrum's value at its centre, in the plot's unit; the ORD plot has none.
+    let list = "conformer A, energy 0 kcal/mol\nenergy_eV f R\n4.0 0.1 20\n6.0 0.2 -30\n";
+    let conformers = table::parse(list).expect("reads");
+    let mut doc = example_document(&Broadening::default());
+    doc.bands.clear();
+    doc.states = Some(states::doc::to_doc(&conformers, &Broadening::default()));
+    let model = Model::from_document(&doc).expect("model");
+    let centres: Vec<f64> = [4.0, 6.0].iter().map(|e| AxisUnit::ElectronVolt.to_wavenumber(*e)).collect();
+    let s = evaluate(&model, &centres).expect("spectra");
+    use chiroptic::figures::{sticks, PlotKind, PlotRequest};
+    let range = (3.0, 7.0);
+    let cd = sticks(&PlotRequest::new(PlotKind::Cd, &s, AxisUnit::ElectronVolt, range));
+    let abs = sticks(&PlotRequest::new(PlotKind::Absorption, &s, AxisUnit::ElectronVolt, range));
+    for (i, e) in [4.0, 6.0].iter().enumerate() {
+        assert!((cd[i].0 - e).abs() < 1e-12 && (abs[i].0 - e).abs() < 1e-12);
+        assert!((cd[i].1 / s.delta_epsilon[i] - 1.0).abs() < 1e-9, "{:?} vs {}", cd[i], s.delta_epsilon[i]);
+        assert!((abs[i].1 / s.epsilon[i] - 1.0).abs() < 1e-9, "{:?} vs {}", abs[i], s.epsilon[i]);
+    }
+    assert!(cd[0].1 > 0.0 && cd[1].1 < 0.0, "the signs of R");
+    let mut mdeg = PlotRequest::new(PlotKind::Cd, &s, AxisUnit::ElectronVolt, range);
+    mdeg.cd_unit = chiroptic::units::CdUnit::Millidegrees;
+    assert!((sticks(&mdeg)[1].1 / s.ellipticity_mdeg[1] - 1.0).abs() < 1e-9);
+    assert!(sticks(&PlotRequest::new(PlotKind::Ord, &s, AxisUnit::ElectronVolt, range)).is_empty());
+}

@@ -88,7 +88,7 @@ pub fn run_states(o: &StatesOptions, notes: &mut String) -> Result<(), Failure> 
         states: Some(states::doc::to_doc(&conformers, &b)),
     };
     crate::model::Model::from_document(&doc).map_err(|e| Failure::input("broadened model", e))?;
-    notes.push_str("note: a truncated sum over computed states is a rough estimate of [α]_D; compare the CD, not the rotation alone\n");
+    notes.push_str(&format!("note: {}\n", states::SUM_OVER_STATES_CAUTION));
     std::fs::write(o.output, doc.to_json_pretty() + "\n")
         .map_err(|e| bad(&o.output.display().to_string(), ErrorKind::Io, format!("cannot write: {e}")))
 }

@@ -41,6 +41,7 @@ use plotters::coord::Shift;
 use plotters::prelude::*;
 pub use points::RESIDUAL_LABEL;
 use scale::{value_range, zero_aligned, AxisScale};
+pub use sticks::sticks;
 use traces::{axis_positions, traces, Trace};
 pub use traces::{sum_key, KeyEntry};
 

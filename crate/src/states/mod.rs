@@ -70,6 +70,10 @@ pub struct Broadening {
     pub local_field: f64,
 }
 
+/// Said wherever a rotation includes computed states (CLI and page).
+pub const SUM_OVER_STATES_CAUTION: &str =
+    "a truncated sum over computed states is a rough estimate of [α]_D; compare the CD, not the rotation alone";
+
 /// Room temperature for populations, K (common practice).
 pub const DEFAULT_TEMPERATURE_K: f64 = 298.15;
 /// The usual width of broadened computed CD, eV FWHM (common practice: 0.2-0.4 eV).

@@ -199,3 +199,16 @@ export const fitCatalog = () => reply(() => wasm.fit_catalog());
 export const fitFinish = (doc, outcomes) => reply(() => wasm.fit_finish(doc, outcomes));
 /** |r| from which the core names a pair strongly correlated. */
 export const fitStrongCorrelation = () => orElse(() => wasm.fit_catalog(), "strong_correlation", null);
+
+// ---------------------------------------------------------------- computed states
+
+/** The states panel's defaults: `{ ok, shapes, temperature_k, fwhm_ev, shift_ev, scale, voigt_lorentz_fwhm_ev, max_shift_ev, max_transitions, energy_fields }`. */
+export const statesCatalog = () => reply(() => wasm.states_catalog());
+/** A transition list (chiroptic's plain format) as a document's `states` section: `{ ok, states }`, or the line at fault. */
+export const statesFromText = (text) => reply(() => wasm.states_from_text(text));
+/** Each conformer's share as the spectra use it (0 when off): `{ ok, populations }`. */
+export const statesPopulations = (doc) => reply(() => wasm.states_populations(doc));
+/** The model's CD and its mirror image against CD set `i` (nm ends optional): `{ ok, unshifted, computed, mirror, range_ev, verdict }`. */
+export const statesCompare = (doc, i, fromNm, toNm, fitWidth, label) => reply(() => wasm.states_compare(doc, i, fromNm, toNm, fitWidth, label));
+/** A window framing the bands and the computed states' bands: `{ ok, range_nm }`. */
+export const statesFrame = (doc) => reply(() => wasm.states_frame(doc));

@@ -21,6 +21,7 @@ import { bindShare } from "./share.js";
 import { startWiki } from "./wiki.js";
 import { bindColour } from "./colour.js";
 import { bindCoupled } from "./coupled.js";
+import { bindStates } from "./states.js";
 import { bindFit } from "./fit.js";
 import { bindTheme, bindMenus, renderConventions } from "./chrome.js";
 
@@ -48,6 +49,7 @@ async function main() {
   bindSample();
   bindBandTable();
   bindCoupled();
+  bindStates();
   bindFit();
   bindPlots();
   bindFiles();

@@ -6,18 +6,41 @@ use super::reply;
 use crate::error::{Error, ErrorKind};
 use crate::similarity::{compare, MAX_SHIFT_EV};
 use crate::states::{self, doc::SHAPES, table, Broadening};
+use crate::units::EnergyUnit;
 use serde_json::json;
 use wasm_bindgen::prelude::*;
 
-/// The panel's defaults: `{ ok, shapes, temperature_k, fwhm_ev, max_shift_ev }`.
+/// The Lorentzian FWHM a broadening starts with when it is switched to
+/// Voigt: a third of the usual Gaussian width, so that the Gaussian part
+/// still sets the band's width (a starting value, changed at will).
+const VOIGT_START_LORENTZ_FWHM_EV: f64 = states::DEFAULT_FWHM_EV / 3.0;
+
+/// The panel's defaults: `{ ok, shapes, temperature_k, fwhm_ev, shift_ev,
+/// scale, voigt_lorentz_fwhm_ev, max_shift_ev, max_transitions,
+/// energy_fields: [{ key, unit }] }` (a conformer's energy fields in the
+/// document and the unit each is in).
 #[wasm_bindgen]
 pub fn states_catalog() -> JsValue {
+    let usual = crate::document::BroadeningDoc::default();
+    let energy_fields: Vec<_> = [
+        ("relative_energy_kcal_per_mol", EnergyUnit::KcalPerMol),
+        ("relative_energy_kj_per_mol", EnergyUnit::KjPerMol),
+        ("relative_energy_ev", EnergyUnit::ElectronVolt),
+        ("relative_energy_hartree", EnergyUnit::Hartree),
+    ]
+    .iter()
+    .map(|(key, unit)| json!({ "key": key, "unit": unit.key() }))
+    .collect();
     reply::ok(&json!({
         "shapes": SHAPES,
         "temperature_k": states::DEFAULT_TEMPERATURE_K,
-        "fwhm_ev": states::DEFAULT_FWHM_EV,
+        "fwhm_ev": usual.fwhm_ev,
+        "shift_ev": usual.shift_ev,
+        "scale": usual.scale,
+        "voigt_lorentz_fwhm_ev": VOIGT_START_LORENTZ_FWHM_EV,
         "max_shift_ev": MAX_SHIFT_EV,
         "max_transitions": crate::limits::MAX_DOCUMENT_TRANSITIONS,
+        "energy_fields": energy_fields,
     }))
 }
 
@@ -78,4 +101,20 @@ pub fn states_compare(doc: JsValue, data_index: usize, from_nm: Option<f64>, to_
         }))
     });
     reply::reply(result)
+}
+
+/// The window that frames the model's bands together with its computed
+/// states' bands (each centre ± 3 widths, `view::frame_bands`), for the
+/// page to show a list it has just read: `{ ok, range_nm }`.
+#[wasm_bindgen]
+pub fn states_frame(doc: JsValue) -> JsValue {
+    let result = super::document_from_js(doc).and_then(|mut doc| {
+        let model = crate::model::Model::from_document(&doc)?;
+        if let Some(section) = &doc.states {
+            let (conformers, b) = states::doc::from_doc(section)?;
+            doc.bands.extend(states::bands(&conformers, &b)?);
+        }
+        Ok(crate::view::frame_bands(&doc, &model))
+    });
+    reply::reply_one("range_nm", result)
 }

@@ -147,7 +147,7 @@ enum Verb {
         #[arg(long)]
         add: Option<PathBuf>,
         /// At most this many bands, the largest lobes first.
-        #[arg(long, default_value_t = 6)]
+        #[arg(long, default_value_t = crate::fit::PROPOSED_DEFAULT_BANDS)]
         bands: usize,
         #[command(flatten)]
         columns: ColumnArgs,

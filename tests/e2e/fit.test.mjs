@@ -10,7 +10,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { pathToFileURL } from "node:url";
 import { browserTests, openPage, canvasDigest, ROOT, DIST } from "../lib/harness.mjs";
-import { cli, docFile, downloadText, parseCsv, pageLink, savedModel, typeInto, assertClose, dropFile } from "../lib/page.mjs";
+import { cli, docFile, downloadText, parseCsv, pageLink, savedModel, typeInto, assertClose, dropModelAndData } from "../lib/page.mjs";
 
 const env = browserTests();
 const FIT = join(ROOT, "fixtures", "fit");
@@ -21,15 +21,7 @@ const ORD = join(FIT, "ord.csv");
 const documentOf = (page) => page.evaluate(() => window.chiroptic.document());
 
 /** The start model and its two data sets, dropped one after the other. */
-async function loadProblem(page, start = START, data = [CD, ORD]) {
-  await dropFile(page, start);
-  const title = JSON.parse(readFileSync(start, "utf8")).title;
-  await page.waitForFunction((t) => window.chiroptic.document().title === t, title);
-  for (const [k, path] of data.entries()) {
-    await dropFile(page, path);
-    await page.waitForFunction((n) => (window.chiroptic.document().data ?? []).length === n, k + 1);
-  }
-}
+const loadProblem = (page, start = START, data = [CD, ORD]) => dropModelAndData(page, start, data);
 
 /** Every text the fit readout shows from now on. */
 async function watchReadout(page) {

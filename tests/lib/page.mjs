@@ -189,3 +189,14 @@ export async function dropBytes(page, name, content) {
 export async function dropFile(page, path, name = path.split("/").pop()) {
   await dropBytes(page, name, readFileSync(path));
 }
+
+/** Drops a model file, then data files one after the other, each waited for until the document holds it. */
+export async function dropModelAndData(page, modelPath, dataPaths = []) {
+  await dropFile(page, modelPath);
+  const title = JSON.parse(readFileSync(modelPath, "utf8")).title;
+  await page.waitForFunction((t) => window.chiroptic.document().title === t, title);
+  for (const [k, path] of dataPaths.entries()) {
+    await dropFile(page, path);
+    await page.waitForFunction((n) => (window.chiroptic.document().data ?? []).length === n, k + 1);
+  }
+}

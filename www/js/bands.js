@@ -1,6 +1,7 @@
 // The band list: one row per band (name, shape, centre, width, R, D, row
-// actions), each with the band's plot colour. Shapes, the new band's
-// values and its name come from the core's catalog.
+// actions), each with the band's plot colour, and beside each value how the
+// fit treats it (fitmodes.js). Shapes, the new band's values and its name
+// come from the core's catalog.
 
 import { $, el } from "./dom.js";
 import { state } from "./state.js";
@@ -9,6 +10,7 @@ import { shortest } from "./format.js";
 import { bindNumber } from "./fields.js";
 import { edit, redraw } from "./edit.js";
 import { unitLabel } from "./plots.js";
+import { bandSlot, renameInFitSettings } from "./fitmodes.js";
 
 /** Arrow-key step of band centres and widths, per unit shown. */
 const BAND_STEP = { nm: 1, "cm-1": 100, ev: 0.01 };
@@ -89,23 +91,6 @@ function nameCell(tr, band, i) {
   return el("td", { className: "col-name" }, el("div", { className: "name-cell" }, swatch, name));
 }
 
-/**
- * The fit settings name parameters "BAND.field": a renamed band takes its
- * settings (its own and the ties to it) along, so the next fit still finds them.
- */
-function renameInFitSettings(from, to) {
-  const settings = state.doc.fit?.parameters;
-  if (!from || !settings) return;
-  const renamed = (text) => {
-    const dot = text?.lastIndexOf(".") ?? -1;
-    return dot > 0 && text.slice(0, dot) === from ? `${to}${text.slice(dot)}` : text;
-  };
-  for (const p of settings) {
-    p.parameter = renamed(p.parameter);
-    if (p.link) p.link.to = renamed(p.link.to);
-  }
-}
-
 function shapeCell(band, i) {
   const shape = el("select", { className: "shape", id: `band-${i}-shape` });
   shape.setAttribute("aria-label", `Shape of band ${i + 1}`);
@@ -132,11 +117,11 @@ function shapeCell(band, i) {
 
 function widthCell(band, i) {
   const w = bandNumber(i, "width", "fwhm_cm1", "Width", widthSpec(band, "fwhm_cm1", ""));
-  const td = el("td", { className: "col-num" }, w.cell);
+  const td = el("td", { className: "col-num" }, w.cell, bandSlot(i, "width"));
   if (band.shape === "voigt") {
     const l = bandNumber(i, "lorentz", "lorentz_fwhm_cm1", "Lorentzian width", widthSpec(band, "lorentz_fwhm_cm1", "Lorentzian part"));
     l.input.placeholder = "Lorentz part";
-    td.append(el("div", { className: "sub-label", textContent: "Lorentzian part" }), l.cell);
+    td.append(el("div", { className: "sub-label", textContent: "Lorentzian part" }), l.cell, bandSlot(i, "lorentz"));
   }
   return td;
 }
@@ -168,10 +153,12 @@ function bandRows(band, i) {
   tr.dataset.index = String(i);
   tr.style.setProperty("--band", core.bandColour(i));
   tr.append(nameCell(tr, band, i), shapeCell(band, i));
-  tr.append(el("td", { className: "col-num" }, bandNumber(i, "center", "center_nm", "Centre", centreSpec(band)).cell));
+  // A value's cell, with how the fit treats it under it.
+  const value = (c, short) => el("td", { className: "col-num" }, c.cell, bandSlot(i, short));
+  tr.append(value(bandNumber(i, "center", "center_nm", "Centre", centreSpec(band)), "centre"));
   tr.append(widthCell(band, i));
-  tr.append(el("td", { className: "col-num" }, bandNumber(i, "r", "rotatory_strength_1e40_cgs", "Rotatory strength", strengthSpec(band, "rotatory_strength_1e40_cgs", 1, R_SLIDER)).cell));
-  tr.append(el("td", { className: "col-num" }, bandNumber(i, "d", "dipole_strength_debye2", "Dipole strength", strengthSpec(band, "dipole_strength_debye2", 0.1, D_SLIDER)).cell));
+  tr.append(value(bandNumber(i, "r", "rotatory_strength_1e40_cgs", "Rotatory strength", strengthSpec(band, "rotatory_strength_1e40_cgs", 1, R_SLIDER)), "R"));
+  tr.append(value(bandNumber(i, "d", "dipole_strength_debye2", "Dipole strength", strengthSpec(band, "dipole_strength_debye2", 0.1, D_SLIDER)), "D"));
   tr.append(actionsCell(i));
   labelActions(tr, band, i);
   const errRow = el("tr", { className: "row-error", hidden: true });

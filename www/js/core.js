@@ -199,6 +199,8 @@ export const fitCatalog = () => reply(() => wasm.fit_catalog());
 export const fitFinish = (doc, outcomes) => reply(() => wasm.fit_finish(doc, outcomes));
 /** |r| from which the core names a pair strongly correlated. */
 export const fitStrongCorrelation = () => orElse(() => wasm.fit_catalog(), "strong_correlation", null);
+/** Bands proposed from data set `index` (CD), at most `maxBands`, in place of the bands or `add`ed: `{ ok, bands, proposed, set }`. */
+export const proposeBands = (doc, index, maxBands, add) => reply(() => wasm.propose_bands(doc, index, maxBands, add));
 
 // ---------------------------------------------------------------- computed states
 

@@ -11,7 +11,8 @@ import { fmtText } from "./format.js";
 import { setStatus } from "./messages.js";
 import { loadDocument, refresh, preview, flushEdits } from "./edit.js";
 import { runFit, cancelFit, fitRunning } from "./fitrun.js";
-import { bindFitSettings, renderFitSettings, renderFitTable, fitCatalog } from "./fitparams.js";
+import { bindFitSettings, renderFitSettings } from "./fitparams.js";
+import { fitCatalog } from "./fitmodes.js";
 import { renderReport, addComparison, bindReport } from "./fitreport.js";
 
 /** The fit in flight: the document it started from, the latest progress, the readout's frame, its starts and workers. */
@@ -121,9 +122,6 @@ export function renderFit() {
   renderReport(state.doc.fit?.report ?? null);
 }
 
-/** Bands' names and shapes, which the per-band table is built from. */
-const tableKey = () => JSON.stringify([state.doc?.bands.map((b) => [b.name, b.shape]), state.doc?.fit?.free, state.doc?.fit?.parameters]);
-
 export function bindFit() {
   bindFitSettings();
   bindReport();
@@ -131,13 +129,5 @@ export function bindFit() {
   $("fit-cancel").addEventListener("click", () => {
     stopFit("Fit cancelled: the model is as it was.");
     refresh();
-  });
-  let key = "";
-  // A band added, renamed or reshaped in the band list changes the per-band table.
-  document.addEventListener("chiroptic:updated", () => {
-    const now = tableKey();
-    if (now === key || $("fit-rows").contains(document.activeElement)) return;
-    key = now;
-    renderFitTable();
   });
 }

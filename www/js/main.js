@@ -23,6 +23,7 @@ import { bindColour } from "./colour.js";
 import { bindCoupled } from "./coupled.js";
 import { bindStates } from "./states.js";
 import { bindFit } from "./fit.js";
+import { bindPropose } from "./propose.js";
 import { bindTheme, bindMenus, renderConventions } from "./chrome.js";
 
 async function main() {
@@ -51,6 +52,7 @@ async function main() {
   bindCoupled();
   bindStates();
   bindFit();
+  bindPropose();
   bindPlots();
   bindFiles();
   bindData();

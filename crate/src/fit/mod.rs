@@ -2,10 +2,12 @@
 //! squares (Levenberg-Marquardt, `lm`), parameters free, fixed, bounded or
 //! linked (`params`), several data sets and lamp-line readings at once
 //! (`residuals`), from several starts (`multistart`), with a report of
-//! estimates, standard errors, correlations and model-comparison figures.
+//! estimates, standard errors, correlations and model-comparison figures;
+//! starting bands proposed from a measured CD set (`propose`).
 
 pub mod lm;
 pub mod params;
+pub mod propose;
 pub mod residuals;
 
 use crate::data::DataSet;
@@ -131,6 +133,7 @@ pub const DEFAULT_FREE: [Field; 3] = [Field::Center, Field::Width, Field::Rotato
 pub const DEFAULT_STARTS: u32 = 8;
 pub const DEFAULT_MAX_ITERATIONS: u32 = 300;
 pub use crate::limits::{MAX_ITERATIONS, MAX_STARTS};
+pub use propose::{propose_bands, propose_in_document, Proposal, PROPOSED_DEFAULT_BANDS};
 /// |r| above this names a pair as strongly correlated.
 pub const STRONG_CORRELATION: f64 = 0.9;
 /// Polarimeter readability when a reading gives no uncertainty (common practice: 0.002 deg).
@@ -835,73 +838,4 @@ fn report(
         strong_correlations: strong,
         warnings,
     }
-}
-
-/// A typical dissymmetry of a band proposed from CD alone (common practice:
-/// allowed transitions have |g| of 1e-3 to 1e-2), to give it a dipole strength.
-pub const PROPOSED_DISSYMMETRY: f64 = 0.01;
-/// Lobes smaller than this fraction of the largest are not proposed.
-pub const PROPOSED_MIN_LOBE: f64 = 0.1;
-
-/// Starting bands from a measured CD set: one Gaussian band per lobe (a run
-/// of one sign), centred at its extremum, as wide as the lobe at half its
-/// height, with R = C_R ∫ Δε/ν over the lobe (physics.md) and D from a
-/// typical dissymmetry. Lobes under a tenth of the largest are left out;
-/// at most `max_bands`, the largest first.
-pub fn propose_bands(set: &DataSet, max_bands: usize) -> Result<Vec<crate::document::BandDoc>> {
-    let de = set.delta_epsilon().map_err(|e| Error::new(ErrorKind::OutOfRange, "data", e.0))?;
-    let mut points: Vec<(f64, f64)> = set.wavenumbers().into_iter().zip(de).collect();
-    points.sort_by(|a, b| a.0.total_cmp(&b.0));
-    let largest = points.iter().fold(0.0_f64, |m, p| m.max(p.1.abs()));
-    if largest.is_nan() || largest <= 0.0 {
-        return Err(Error::new(ErrorKind::OutOfRange, "data", format!("\"{}\" has no CD to propose bands from", set.name)));
-    }
-    // Lobes: maximal runs of one sign.
-    let mut lobes: Vec<&[(f64, f64)]> = Vec::new();
-    let mut start = 0;
-    for i in 1..=points.len() {
-        if i == points.len() || points[i].1.signum() != points[start].1.signum() {
-            lobes.push(&points[start..i]);
-            start = i;
-        }
-    }
-    let mut bands: Vec<(f64, crate::document::BandDoc)> = Vec::new();
-    for lobe in lobes {
-        let (k, peak) =
-            lobe.iter().enumerate().max_by(|a, b| a.1 .1.abs().total_cmp(&b.1 .1.abs())).map(|(k, p)| (k, *p)).unwrap_or((0, (0.0, 0.0)));
-        if peak.1.abs() < PROPOSED_MIN_LOBE * largest || lobe.len() < 3 {
-            continue;
-        }
-        // Half height on each side (the lobe's ends where it stays above).
-        let half = peak.1.abs() / 2.0;
-        let lo = lobe[..=k].iter().rev().find(|p| p.1.abs() < half).map(|p| p.0).unwrap_or(lobe[0].0);
-        let hi = lobe[k..].iter().find(|p| p.1.abs() < half).map(|p| p.0).unwrap_or(lobe[lobe.len() - 1].0);
-        let fwhm = (hi - lo).max(2.0 * (lobe[1].0 - lobe[0].0).abs());
-        let integral: f64 = lobe.windows(2).map(|w| 0.5 * (w[0].1 / w[0].0 + w[1].1 / w[1].0) * (w[1].0 - w[0].0)).sum();
-        let r = crate::units::ROTATORY_CONSTANT * integral / crate::units::ESU2_CM2_PER_ROTATORY_UNIT;
-        let d = (r.abs() * crate::model::dissymmetry_limited_dipole_strength(1.0) * crate::model::MAX_DISSYMMETRY / PROPOSED_DISSYMMETRY)
-            .max(crate::model::dissymmetry_limited_dipole_strength(r));
-        let center_nm = AxisUnit::Nanometre.from_wavenumber(peak.0);
-        bands.push((
-            peak.1.abs(),
-            crate::document::BandDoc {
-                name: format!("{}{}", crate::model::BAND_NAME_PREFIX, bands.len() + 1),
-                shape: "gaussian".into(),
-                center_nm,
-                fwhm_cm1: fwhm.min(0.9 * peak.0),
-                lorentz_fwhm_cm1: None,
-                rotatory_strength_1e40_cgs: r,
-                dipole_strength_debye2: d,
-            },
-        ));
-    }
-    bands.sort_by(|a, b| b.0.total_cmp(&a.0));
-    bands.truncate(max_bands);
-    // Names in wavelength order, long to short, as a CD spectrum is read.
-    let mut out: Vec<crate::document::BandDoc> = bands.into_iter().map(|(_, b)| b).collect();
-    out.sort_by(|a, b| b.center_nm.total_cmp(&a.center_nm));
-    for (i, b) in out.iter_mut().enumerate() {
-        b.name = format!("{}{}", crate::model::BAND_NAME_PREFIX, i + 1);
-    }
-    Ok(out)
 }

@@ -3,7 +3,8 @@
 //! JS callbacks, whole (`fit_document`) or split over workers by start
 //! (`fit_starts` on each, `fit_finish` on the page). The loop is
 //! synchronous, so Cancel is the page terminating the workers; nothing here
-//! needs to read a message.
+//! needs to read a message. Also starting bands proposed from a measured CD
+//! set (`propose_bands`, called on the page itself: it is quick).
 
 use super::document_value;
 use super::reply::{ok, reply};
@@ -138,9 +139,21 @@ pub fn fit_document(doc: JsValue, progress: &Function, snapshot: &Function) -> J
     reply(result)
 }
 
+/// Starting bands from the document's data set `index` (a CD set, after its
+/// processing), at most `max_bands`, one per lobe: `{ ok, bands, proposed,
+/// set }` with `bands` every band the document has afterwards (the
+/// proposal in place of its bands, or with `add` after them), or the core's
+/// error naming what is wrong (a set that is not CD or has no CD ...).
+#[wasm_bindgen]
+pub fn propose_bands(doc: JsValue, index: usize, max_bands: usize, add: bool) -> JsValue {
+    let result = super::document_from_js(doc).and_then(|doc| fit::propose_in_document(&doc, index, max_bands, add));
+    reply(result)
+}
+
 /// What the fit panel builds its controls from: the band fields a fit can
 /// set (document key, short name), those free by default, the default and
-/// largest number of starts and iterations, and the correlation named strong.
+/// largest number of starts and iterations, the correlation named strong,
+/// and how many bands "Propose bands" offers by default.
 #[wasm_bindgen]
 pub fn fit_catalog() -> JsValue {
     let fields: Vec<serde_json::Value> = fit::Field::ALL
@@ -164,5 +177,6 @@ pub fn fit_catalog() -> JsValue {
         "default_max_iterations": fit::DEFAULT_MAX_ITERATIONS,
         "max_iterations": fit::MAX_ITERATIONS,
         "strong_correlation": fit::STRONG_CORRELATION,
+        "propose_default_bands": fit::PROPOSED_DEFAULT_BANDS,
     }))
 }

@@ -124,6 +124,7 @@ test("the example list read through the file chooser shows two conformers at the
     assert.equal(cells[1][1], "0.65 kcal/mol", "the energy as the list gave it");
     assert.deepEqual(cells.map((c) => c[5]), conformers.map((c) => String(c.transitions.length)), "transitions per conformer");
     assert.equal(await page.isVisible("#lines-states-note"), true, "the caution about [α]D from a truncated sum");
+    assert.match(await page.textContent("#lines-states-note"), /truncated sum over computed states is a rough estimate of \[α\]D/);
     // One undo step takes the list out again.
     await page.click("#undo");
     assert.equal((await docOf(page)).states, undefined);

@@ -332,7 +332,15 @@ export function renderStates() {
   renderStatesCompare();
 }
 
+/** The core's caution about the lamp lines, with "[α]_D" typeset as [α] and a subscript D. */
+function showCaution() {
+  const [before, ...after] = statesCatalog().caution.split("_D");
+  const text = `With computed states in the model: ${before}`;
+  $("lines-states-note").replaceChildren(text, ...(after.length ? [el("sub", { textContent: "D" }), after.join("_D")] : []), ".");
+}
+
 export function bindStates() {
+  showCaution();
   $("states-open").addEventListener("click", () => $("states-file").click());
   $("states-file").addEventListener("change", async () => {
     const file = $("states-file").files[0];

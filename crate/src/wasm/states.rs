@@ -17,8 +17,9 @@ const VOIGT_START_LORENTZ_FWHM_EV: f64 = states::DEFAULT_FWHM_EV / 3.0;
 
 /// The panel's defaults: `{ ok, shapes, temperature_k, fwhm_ev, shift_ev,
 /// scale, voigt_lorentz_fwhm_ev, max_shift_ev, max_transitions,
-/// energy_fields: [{ key, unit }] }` (a conformer's energy fields in the
-/// document and the unit each is in).
+/// energy_fields: [{ key, unit }], caution }` (a conformer's energy fields
+/// in the document and the unit each is in; the caution about the rotation
+/// from a sum over states).
 #[wasm_bindgen]
 pub fn states_catalog() -> JsValue {
     let usual = crate::document::BroadeningDoc::default();
@@ -41,6 +42,7 @@ pub fn states_catalog() -> JsValue {
         "max_shift_ev": MAX_SHIFT_EV,
         "max_transitions": crate::limits::MAX_DOCUMENT_TRANSITIONS,
         "energy_fields": energy_fields,
+        "caution": states::SUM_OVER_STATES_CAUTION,
     }))
 }
 

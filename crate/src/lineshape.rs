@@ -535,6 +535,72 @@ impl Lineshape {
     }
 }
 
+/// One part of s (Im: CD and absorption; Re: ORD) and its parameter
+/// derivatives, for fitting, where each point needs only one part.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct PartDerivatives {
+    pub value: f64,
+    pub d_center: f64,
+    pub d_fwhm: f64,
+    pub d_lorentz_fwhm: f64,
+}
+
+impl Lineshape {
+    /// Im s (`imaginary`) or Re s at nu: a Gaussian's Im part needs only
+    /// exp, its Re part only Dawson.
+    #[inline]
+    pub fn part(&self, nu: f64, imaginary: bool) -> f64 {
+        match *self {
+            Lineshape::Gaussian { center, delta } => gaussian_part(center, delta, nu, imaginary).value,
+            _ => {
+                let v = self.value(nu);
+                if imaginary {
+                    v.im
+                } else {
+                    v.re
+                }
+            }
+        }
+    }
+
+    /// [`Lineshape::part`] with its derivatives; a Gaussian's in real
+    /// arithmetic from w(x) = exp(-x^2) + (2i/sqrt(pi)) F(x) and
+    /// w' = -2 x w + 2i/sqrt(pi), the same expressions as
+    /// [`Lineshape::derivatives`] takes in complex numbers.
+    #[inline]
+    pub fn part_derivatives(&self, nu: f64, imaginary: bool) -> PartDerivatives {
+        if let Lineshape::Gaussian { center, delta } = *self {
+            return gaussian_part(center, delta, nu, imaginary);
+        }
+        let d = self.derivatives(nu);
+        let pick = |z: Complex64| if imaginary { z.im } else { z.re };
+        PartDerivatives { value: pick(d.value), d_center: pick(d.d_center), d_fwhm: pick(d.d_fwhm), d_lorentz_fwhm: pick(d.d_lorentz_fwhm) }
+    }
+}
+
+/// A Gaussian's part: with x1,2 = (nu -+ nu_j)/Delta and k = 1/(sqrt(pi) Delta),
+/// Im s = k (G1 + G2) and Re s = -(2/sqrt(pi)) k (F1 + F2); Re w' = -2 x G,
+/// Im w' = (2/sqrt(pi)) (1 - 2 x F).
+#[inline]
+fn gaussian_part(center: f64, delta: f64, nu: f64, imaginary: bool) -> PartDerivatives {
+    let inv = 1.0 / delta;
+    let (x1, x2) = ((nu - center) * inv, (nu + center) * inv);
+    let k = inv / PI.sqrt();
+    let (value, d_center, spread) = if imaginary {
+        let (g1, g2) = (gauss(x1), gauss(x2));
+        // Im[i k (w2' - w1')] / Delta and the x Re w' sum of d/dDelta.
+        (k * (g1 + g2), k * 2.0 * (x1 * g1 - x2 * g2) * inv, k * 2.0 * (x1 * x1 * g1 + x2 * x2 * g2) * inv)
+    } else {
+        let (f1, f2) = (dawson(x1), dawson(x2));
+        let m = k * 2.0 / PI.sqrt();
+        let (i1, i2) = (1.0 - 2.0 * x1 * f1, 1.0 - 2.0 * x2 * f2);
+        (-m * (f1 + f2), -m * (i2 - i1) * inv, m * (x1 * i1 + x2 * i2) * inv)
+    };
+    // d/dDelta = -value/Delta + spread; d/dFWHM through Delta = FWHM/(2 sqrt(ln 2)).
+    let d_fwhm = (-value * inv + spread) * gaussian_delta_from_fwhm(1.0);
+    PartDerivatives { value, d_center, d_fwhm, d_lorentz_fwhm: 0.0 }
+}
+
 /// s = i/(sqrt(pi) Delta) [w(z1) + w(z2)], z1,2 = (nu -+ nu_j + i G_L/2)/Delta,
 /// Delta = FWHM / (2 sqrt(ln 2)).
 fn voigt_derivatives(center: f64, delta: f64, lorentz_fwhm: f64, nu: f64, voigt: bool) -> ShapeDerivatives {

@@ -11,7 +11,6 @@ use crate::lineshape::Lineshape;
 use crate::model::Model;
 use crate::spectra::{chiral_scale, epsilon_from_k, mean_scale};
 use crate::units::{self, CdUnit};
-use num_complex::Complex64;
 
 /// What an observation compares: Im s (CD, absorption) or Re s (ORD).
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -268,56 +267,68 @@ impl FitProblem {
         let np = self.layout.parameters.len();
         let shapes: Vec<Lineshape> = (0..self.kinds.len()).map(|b| self.shape(values, b)).collect();
         let (coupled, coupled_columns) = self.coupled_terms(values, jv.is_some());
-        r.clear();
-        let mut jv = jv;
-        if let Some(j) = jv.as_deref_mut() {
-            j.clear();
-            j.resize(self.points.len() * np, 0.0);
-        }
-        for (i, p) in self.points.iter().enumerate() {
-            let (offset, scale) = self.offset_scale(values, p.set);
-            let mut sum = coupled[i];
-            match jv.as_deref_mut() {
-                None => {
-                    for (b, shape) in shapes.iter().enumerate() {
-                        sum += self.strength(values, b, p.part) * part_of(shape.value(p.nu), p.part);
-                    }
-                }
-                Some(j) => {
-                    let row = &mut j[i * np..(i + 1) * np];
-                    let k = p.weight * scale * p.factor;
-                    for (b, shape) in shapes.iter().enumerate() {
-                        let d = shape.derivatives(p.nu);
-                        let strength = self.strength(values, b, p.part);
-                        let part = part_of(d.value, p.part);
-                        sum += strength * part;
-                        let cols = self.bands[b];
-                        let mut put = |c: Option<usize>, v: f64| {
-                            if let Some(col) = c {
-                                row[col] += k * v;
-                            }
-                        };
-                        put(self.strength_column(b, p.part), part);
-                        let dc = strength * part_of(d.d_center, p.part);
-                        put(cols.center, dc);
-                        put(self.shift, dc);
-                        put(cols.fwhm, strength * part_of(d.d_fwhm, p.part));
-                        put(cols.lorentz, strength * part_of(d.d_lorentz_fwhm, p.part));
-                    }
-                    for (col, d) in &coupled_columns {
-                        row[*col] += k * d[i];
-                    }
-                    let (o, sc) = self.set_columns[p.set];
-                    if let Some(col) = sc {
-                        row[col] = p.weight * p.factor * sum;
-                    }
-                    if let Some(col) = o {
-                        row[col] = p.weight;
-                    }
+        // Band by band, point by point: each band's shape is chosen once and
+        // its strengths read once, for all points.
+        let mut sums = coupled;
+        let Some(j) = jv else {
+            for (b, shape) in shapes.iter().enumerate() {
+                let (rotatory, dipole) = (self.strength(values, b, Part::ChiralIm), self.strength(values, b, Part::MeanIm));
+                for (sum, p) in sums.iter_mut().zip(&self.points) {
+                    let strength = if p.part == Part::MeanIm { dipole } else { rotatory };
+                    *sum += strength * shape.part(p.nu, p.part != Part::ChiralRe);
                 }
             }
-            r.push(p.weight * (scale * p.factor * sum + offset - p.y));
+            self.residuals_from(values, &sums, r);
+            return;
+        };
+        j.clear();
+        j.resize(self.points.len() * np, 0.0);
+        // d observable / d value = weight * scale * factor * (d sum / d value).
+        let k: Vec<f64> = self.points.iter().map(|p| p.weight * self.offset_scale(values, p.set).1 * p.factor).collect();
+        for (b, shape) in shapes.iter().enumerate() {
+            let cols = self.bands[b];
+            let (rotatory, dipole) = (self.strength(values, b, Part::ChiralIm), self.strength(values, b, Part::MeanIm));
+            for (i, p) in self.points.iter().enumerate() {
+                let d = shape.part_derivatives(p.nu, p.part != Part::ChiralRe);
+                let (strength, strength_column) = if p.part == Part::MeanIm { (dipole, cols.dipole) } else { (rotatory, cols.rotatory) };
+                sums[i] += strength * d.value;
+                let row = &mut j[i * np..(i + 1) * np];
+                let mut put = |c: Option<usize>, v: f64| {
+                    if let Some(col) = c {
+                        row[col] += k[i] * v;
+                    }
+                };
+                put(strength_column, d.value);
+                let dc = strength * d.d_center;
+                put(cols.center, dc);
+                put(self.shift, dc);
+                put(cols.fwhm, strength * d.d_fwhm);
+                put(cols.lorentz, strength * d.d_lorentz_fwhm);
+            }
         }
+        for (i, p) in self.points.iter().enumerate() {
+            let row = &mut j[i * np..(i + 1) * np];
+            for (col, d) in &coupled_columns {
+                row[*col] += k[i] * d[i];
+            }
+            let (o, sc) = self.set_columns[p.set];
+            if let Some(col) = sc {
+                row[col] = p.weight * p.factor * sums[i];
+            }
+            if let Some(col) = o {
+                row[col] = p.weight;
+            }
+        }
+        self.residuals_from(values, &sums, r);
+    }
+
+    /// r_i = weight * (scale * factor * sum + offset - y).
+    fn residuals_from(&self, values: &[f64], sums: &[f64], r: &mut Vec<f64>) {
+        r.clear();
+        r.extend(self.points.iter().zip(sums).map(|(p, sum)| {
+            let (offset, scale) = self.offset_scale(values, p.set);
+            p.weight * (scale * p.factor * sum + offset - p.y)
+        }));
     }
 
     /// Residuals and the Jacobian with respect to the free parameters'
@@ -343,13 +354,6 @@ impl FitProblem {
                 }
             }
         }
-    }
-}
-
-fn part_of(s: Complex64, part: Part) -> f64 {
-    match part {
-        Part::ChiralIm | Part::MeanIm => s.im,
-        Part::ChiralRe => s.re,
     }
 }
 

@@ -3,13 +3,14 @@
 // hand and switches are one undo step each, the exported CD integrates back
 // to the population-weighted rotatory (and dipole) strengths, the comparison
 // finds a known shift and tells a configuration from its mirror image, bad
-// input is named and changes nothing, and the section travels in a link.
+// input is named and changes nothing, and the section travels in a link
+// and in the model file.
 import { test } from "node:test";
 import assert from "node:assert/strict";
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { browserTests, openPage, canvasDigest, ROOT } from "../lib/harness.mjs";
-import { downloadText, parseCsv, typeInto, messageFor, pageLink, dropBytes, assertClose } from "../lib/page.mjs";
+import { downloadText, parseCsv, typeInto, messageFor, pageLink, savedModel, dropBytes, assertClose } from "../lib/page.mjs";
 
 const env = browserTests();
 
@@ -33,7 +34,7 @@ const CM1_PER_EV = ERG_PER_EV / (PLANCK_ERG_S * LIGHT_CM_PER_S);
 /**
  * The invented example list, read here by the test itself (not by the
  * page): each conformer's name, energy in kcal/mol and transitions
- * (energy in eV, f, R in the length form).
+ * (energy in eV, f, R in the length and velocity forms).
  */
 function exampleConformers() {
   const out = [];
@@ -53,7 +54,7 @@ function exampleConformers() {
       continue;
     }
     const v = (name) => Number(cells[header.indexOf(name)]);
-    out.at(-1).transitions.push({ ev: v("energy_eV"), f: v("f"), r: v("R_length") });
+    out.at(-1).transitions.push({ ev: v("energy_eV"), f: v("f"), r: v("R_length"), rv: v("R_velocity") });
   }
   return out;
 }
@@ -131,6 +132,28 @@ test("the example list read through the file chooser shows two conformers at the
     assert.equal(await page.isVisible("#lines-states-note"), false);
     await page.click("#redo");
     assert.equal((await docOf(page)).states.conformers.length, 2);
+    // Remove states: one undo step too.
+    await page.click("#states-remove");
+    assert.equal((await docOf(page)).states, undefined);
+    assert.equal(await page.isVisible("#states-body"), false);
+    await page.click("#undo");
+    assert.equal((await docOf(page)).states.conformers.length, 2);
+  } finally {
+    await context.close();
+  }
+});
+
+test("a list dropped on the panel is read as a transition list, not as measured data", async () => {
+  const { page, context } = await openPage(env);
+  try {
+    page.on("dialog", (d) => d.accept());
+    await page.click("#new-model");
+    await dropBytes(page, "example.txt", readFileSync(EXAMPLE), "states");
+    await page.waitForSelector("#states-body:not([hidden])");
+    const doc = await docOf(page);
+    assert.deepEqual(doc.states.conformers.map((c) => c.transitions.length), exampleConformers().map((c) => c.transitions.length));
+    assert.equal(doc.data, undefined, "no data set was made of it");
+    assert.deepEqual(await sharesShown(page), ["74.97 %", "25.03 %"]);
   } finally {
     await context.close();
   }
@@ -147,6 +170,14 @@ test("a share typed by hand and a conformer switched off are one undo step each"
     await page.click("#undo");
     assert.deepEqual(await docOf(page), loaded, "one undo step back to the list as read");
     assert.deepEqual(await sharesUsed(page), boltz);
+
+    // Another temperature: the shares follow Boltzmann's formula at it.
+    await typeInto(page, "#states-temperature", "350");
+    assert.equal((await docOf(page)).states.temperature_k, 350);
+    const at350 = boltzmann(exampleConformers(), 350).map((x) => x * 100);
+    (await sharesUsed(page)).forEach((u, i) => assertClose(u, at350[i], 1e-9, `share at 350 K of conformer ${i + 1}`));
+    await page.click("#undo");
+    assert.deepEqual(await docOf(page), loaded, "typing 3, 35, 350 was one undo step");
 
     await page.click("#states-on-0");
     assert.equal((await docOf(page)).states.conformers[0].off, true);
@@ -184,6 +215,14 @@ test("the exported CD follows the width and integrates back to the population-we
     assert.ok(peak(at02.de) > 1.2 * peak(at03.de), `narrower bands peak higher: ${peak(at02.de)} vs ${peak(at03.de)}`);
     // The area stays: the same strengths in narrower bands.
     assertClose((C_R * integralOverNu(at02.nm, at02.de)) / 1e-40, rSum, 0.01, "C_R ∫ Δε/ν dν at 0.2 eV");
+
+    // The velocity form, scaled by 2: twice the weighted sum of the velocity-form R.
+    await page.selectOption("#states-form", "velocity");
+    await typeInto(page, "#states-scale", "2");
+    const rVelocity = conformers.reduce((s, c, i) => s + p[i] * c.transitions.reduce((a, t) => a + t.rv, 0), 0);
+    assert.ok(Math.abs(rVelocity - rSum) > 0.05 * Math.abs(rSum), "the two forms differ enough to tell apart");
+    const velocity = await exported(page);
+    assertClose((C_R * integralOverNu(velocity.nm, velocity.de)) / 1e-40, 2 * rVelocity, 0.01, "C_R ∫ Δε/ν dν, velocity form × 2");
   } finally {
     await context.close();
   }
@@ -281,7 +320,7 @@ test("a bad list is named by its line and changes nothing; a share of 150 % is r
   }
 });
 
-test("the states section travels in the share link", async () => {
+test("the states section travels in the share link and in the model file", async () => {
   const { page, context } = await withExample();
   try {
     await typeInto(page, "#states-fwhm", "0.25");
@@ -297,6 +336,15 @@ test("the states section travels in the share link", async () => {
     assert.deepEqual(await sharesShown(other.page), ["70.00 %", "30.00 %"]);
     assert.equal(await other.page.inputValue("#states-form"), "velocity");
     assert.equal(await other.page.inputValue("#states-lorentz") !== "", true, "the Voigt's Lorentzian width is shown");
+
+    // And in the model file: saved, then opened in a new, empty model.
+    const saved = await savedModel(page);
+    other.page.on("dialog", (d) => d.accept());
+    await other.page.click("#new-model");
+    assert.equal((await docOf(other.page)).states, undefined);
+    await other.page.setInputFiles("#file-input", { name: "states.chiroptic.json", mimeType: "application/json", buffer: Buffer.from(JSON.stringify(saved)) });
+    await other.page.waitForSelector("#states-body:not([hidden])");
+    assert.deepEqual((await docOf(other.page)).states, doc.states, "the section after the file's round trip");
   } finally {
     await context.close();
   }

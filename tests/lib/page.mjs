@@ -166,22 +166,22 @@ export async function messageFor(page, selector) {
 }
 
 /**
- * Drops a file on the plots as a person drags one from the desktop
- * (dragenter, dragover, drop with a DataTransfer holding the file).
- * `content` is text or bytes.
+ * Drops a file on the plots (or on the element `targetId`) as a person drags
+ * one from the desktop (dragenter, dragover, drop with a DataTransfer
+ * holding the file). `content` is text or bytes.
  */
-export async function dropBytes(page, name, content) {
+export async function dropBytes(page, name, content, targetId = "plot-grid") {
   const bytes = typeof content === "string" ? [...new TextEncoder().encode(content)] : [...content];
   await page.evaluate(
-    ({ name, bytes }) => {
+    ({ name, bytes, targetId }) => {
       const dt = new DataTransfer();
       dt.items.add(new File([new Uint8Array(bytes)], name, { type: "text/plain" }));
-      const target = document.getElementById("plot-grid");
+      const target = document.getElementById(targetId);
       for (const type of ["dragenter", "dragover", "drop"]) {
         target.dispatchEvent(new DragEvent(type, { dataTransfer: dt, bubbles: true, cancelable: true }));
       }
     },
-    { name, bytes },
+    { name, bytes, targetId },
   );
 }
 

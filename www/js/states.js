@@ -51,7 +51,8 @@ function sayProblem(text) {
 export function loadList(text, source) {
   const r = core.statesFromText(text);
   if (!r.ok) {
-    sayProblem(`${source}: ${r.error.message.replace(/\.$/, "")}. The model is unchanged.`);
+    const text = `${source}: ${r.error.message.replace(/\.$/, "")}. The model is unchanged.`;
+    sayProblem(text.charAt(0).toUpperCase() + text.slice(1));
     return false;
   }
   sayProblem(null);

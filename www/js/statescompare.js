@@ -30,7 +30,7 @@ function fillSets() {
   select.replaceChildren(...sets.map(({ d, i }) => el("option", { value: String(i), textContent: d.name })));
   if (sets.some(({ i }) => String(i) === keep)) select.value = keep;
   const none = sets.length === 0;
-  select.disabled = none;
+  $("states-compare-controls").hidden = none;
   $("states-compare-run").disabled = none || !state.doc?.states;
   $("states-compare-none").hidden = !none;
 }

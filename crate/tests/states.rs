@@ -21,6 +21,18 @@ fn example_document(b: &Broadening) -> Document {
     doc
 }
 
+/// The SciPy reference rows (wavelength_nm, De, e) and each column's largest |value|.
+fn reference() -> (Vec<Vec<f64>>, impl Fn(usize) -> f64) {
+    let rows: Vec<Vec<f64>> = REFERENCE
+        .lines()
+        .filter(|l| !l.starts_with('#'))
+        .skip(1)
+        .map(|l| l.split(',').map(|v| v.parse().expect("number")).collect())
+        .collect();
+    let peaks: Vec<f64> = (0..3).map(|k| rows.iter().fold(0.0_f64, |m, r| m.max(r[k].abs()))).collect();
+    (rows, move |k: usize| peaks[k])
+}
+
 #[test]
 fn the_example_list_reads() {
     let c = table::parse(EXAMPLE).expect("reads");
@@ -69,15 +81,9 @@ fn oscillator_and_dipole_strengths_convert_by_the_standard_relation() {
 fn broadened_spectrum_matches_the_numpy_scipy_computation() {
     let doc = example_document(&Broadening::default());
     let model = Model::from_document(&doc).expect("model");
-    let rows: Vec<Vec<f64>> = REFERENCE
-        .lines()
-        .filter(|l| !l.starts_with('#'))
-        .skip(1)
-        .map(|l| l.split(',').map(|v| v.parse().expect("number")).collect())
-        .collect();
+    let (rows, peak) = reference();
     let nu: Vec<f64> = rows.iter().map(|r| 1e7 / r[0]).collect();
     let s = evaluate(&model, &nu).expect("spectra");
-    let peak = |k: usize| rows.iter().fold(0.0_f64, |m, r| m.max(r[k].abs()));
     // 1e-8: SciPy's electron mass is CODATA 2022's, chiroptic's CODATA 2018's
     // (they differ by 1.4e-9), and it enters D through f.
     for (i, r) in rows.iter().enumerate() {
@@ -168,13 +174,7 @@ fn the_states_section_broadens_as_the_numpy_scipy_computation() {
     let model = Model::from_document(&doc).expect("model");
     let nm: Vec<f64> = (0..=3200).map(|i| 180.0 + 0.05 * i as f64).collect();
     let s = evaluate(&model, &nm.iter().map(|x| 1e7 / x).collect::<Vec<_>>()).expect("spectra");
-    let rows: Vec<Vec<f64>> = REFERENCE
-        .lines()
-        .filter(|l| !l.starts_with('#'))
-        .skip(1)
-        .map(|l| l.split(',').map(|v| v.parse().expect("number")).collect())
-        .collect();
-    let peak = |k: usize| rows.iter().fold(0.0_f64, |m, r| m.max(r[k].abs()));
+    let (rows, peak) = reference();
     for r in &rows {
         let i = ((r[0] - 180.0) / 0.05).round() as usize;
         assert!((nm[i] - r[0]).abs() < 1e-9);

@@ -191,6 +191,36 @@ test("a share typed by hand and a conformer switched off are one undo step each"
   }
 });
 
+test("dragging the FWHM slider is one undo step, even with a pause; ↑ steps the shift", async () => {
+  const { page, context } = await withExample();
+  try {
+    const loaded = await docOf(page);
+    const slider = page.locator(".num-cell:has(#states-fwhm) .slider");
+    const box = await slider.boundingBox();
+    const y = box.y + box.height / 2;
+    await page.mouse.move(box.x + box.width * 0.25, y);
+    await page.mouse.down();
+    for (let k = 1; k <= 8; k++) {
+      await page.mouse.move(box.x + box.width * (0.25 + 0.05 * k), y);
+      // A pause longer than the history's burst of typing (1 s): still one drag.
+      if (k === 4) await page.waitForTimeout(1200);
+    }
+    await page.mouse.up();
+    const dragged = (await docOf(page)).states.broadening.fwhm_ev;
+    assert.ok(dragged > loaded.states.broadening.fwhm_ev + 0.1, `the drag widened the bands to ${dragged} eV`);
+    await page.click("#undo");
+    assert.deepEqual(await docOf(page), loaded, "the whole drag was one step");
+
+    await page.click("#states-shift");
+    await page.keyboard.press("ArrowUp");
+    assert.equal((await docOf(page)).states.broadening.shift_ev, 0.01, "one step of 0.01 eV");
+    await page.keyboard.press("Shift+ArrowUp");
+    assert.equal((await docOf(page)).states.broadening.shift_ev, 0.11, "Shift: ten steps");
+  } finally {
+    await context.close();
+  }
+});
+
 test("the exported CD follows the width and integrates back to the population-weighted R and D", async () => {
   const { page, context } = await withExample();
   try {

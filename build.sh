@@ -73,7 +73,7 @@ ensure_wasm_bindgen() {
 # 108), so an older system wasm-opt is passed over for binaryen from the npm
 # registry, pinned and installed once under the build directory.
 WASM_OPT_MIN_VERSION=116
-WASM_SIZE_CEILING=1154500
+WASM_SIZE_CEILING=1268100
 BINARYEN_NPM_VERSION=132.0.0
 wasm_opt_version() { "$1" --version 2>/dev/null | grep -oE '[0-9]+' | head -1; }
 find_wasm_opt() {

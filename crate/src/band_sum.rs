@@ -10,7 +10,7 @@
 //! points themselves. The interpolated sums agree with the direct ones to
 //! about 1e-10 of their largest value (tested).
 
-use crate::lineshape::{ln_grid, Lineshape};
+use crate::lineshape::{ln_grid, Lineshape, Terms};
 use crate::model::Band;
 
 /// The four sums every spectrum is made from (see `spectra`): the chiral
@@ -28,12 +28,12 @@ impl ShapeSums {
         ShapeSums { delta_n: vec![0.0; n], delta_k: vec![0.0; n], mean_n: vec![0.0; n], mean_k: vec![0.0; n] }
     }
 
-    /// Adds each band's strength times its shapes at the points `nu`.
-    fn add_bands(&mut self, bands: &[Band], nu: &[f64]) {
+    /// Adds each band's strength times its shapes (the chosen terms) at the points `nu`.
+    fn add_bands(&mut self, bands: &[Band], nu: &[f64], terms: Terms) {
         let ln_nu = ln_grid(nu);
         for b in bands {
             let sums = [&mut self.delta_n[..], &mut self.delta_k[..], &mut self.mean_n[..], &mut self.mean_k[..]];
-            b.lineshape.accumulate(nu, &ln_nu, b.rotatory_strength_esu2_cm2, b.dipole_strength_esu2_cm2, sums);
+            b.lineshape.accumulate(nu, &ln_nu, b.rotatory_strength_esu2_cm2, b.dipole_strength_esu2_cm2, sums, terms);
         }
     }
 }
@@ -46,6 +46,12 @@ impl ShapeSums {
 /// of the largest value (tests/band_sum.rs measures it).
 const GAUSSIAN_PANEL: (usize, f64) = (41, 8.0);
 const LORENTZ_PANEL: (usize, f64) = (29, 2.0);
+/// Nodes of the one panel over the whole grid that takes the Gaussians'
+/// mirror terms F((nu + nu_j)/Delta): |x| >= 2 nu_min/Delta there, a smooth
+/// 1/x-like function whose pole at x = 0 lies well outside the panel.
+const MIRROR_NODES: usize = 33;
+/// The smallest (nu + nu_j)/Delta for which the mirror terms take that panel.
+const MIRROR_APART_FROM: f64 = 20.0;
 
 /// The length over which a band's shape changes appreciably, cm^-1, and the
 /// panel fitting it. A Voigt is smoother than its Gaussian part alone (its
@@ -57,6 +63,83 @@ fn panel_for(shape: &Lineshape) -> (usize, f64) {
     }
 }
 
+/// Equal panels over [lo, hi], each with the same Chebyshev-Lobatto nodes
+/// (shared at panel ends).
+struct Panels {
+    lo: f64,
+    length: f64,
+    count: usize,
+    /// The nodes on [-1, 1] and their barycentric weights, (-1)^j halved at the ends.
+    reference: Vec<f64>,
+    weights: Vec<f64>,
+}
+
+impl Panels {
+    fn new(lo: f64, hi: f64, count: usize, per_panel: usize) -> Panels {
+        let reference = (0..per_panel).map(|j| -(std::f64::consts::PI * j as f64 / (per_panel - 1) as f64).cos()).collect();
+        let weights = (0..per_panel)
+            .map(|j| {
+                let w = if j % 2 == 0 { 1.0 } else { -1.0 };
+                if j == 0 || j == per_panel - 1 {
+                    w / 2.0
+                } else {
+                    w
+                }
+            })
+            .collect();
+        Panels { lo, length: (hi - lo) / count as f64, count, reference, weights }
+    }
+
+    /// Node k * (per_panel - 1) + j is node j of panel k.
+    fn nodes(&self) -> Vec<f64> {
+        (0..self.count)
+            .flat_map(|k| {
+                let start = self.lo + self.length * k as f64;
+                let first = if k == 0 { 0 } else { 1 };
+                self.reference[first..].iter().map(move |t| start + self.length * (t + 1.0) / 2.0).collect::<Vec<_>>()
+            })
+            .collect()
+    }
+
+    /// Adds the interpolant of the node values to `out` at the points `nu`.
+    fn add_interpolated(&self, at_nodes: &ShapeSums, nu: &[f64], out: &mut ShapeSums) {
+        let per_panel = self.reference.len();
+        let mut c = vec![0.0; per_panel];
+        for (i, x) in nu.iter().enumerate() {
+            let k = (((x - self.lo) / self.length) as usize).min(self.count - 1);
+            let t = 2.0 * (x - self.lo - self.length * k as f64) / self.length - 1.0;
+            let base = k * (per_panel - 1);
+            let on_node = self.reference.iter().position(|r| *r == t);
+            if on_node.is_none() {
+                let mut total = 0.0;
+                for ((c, w), r) in c.iter_mut().zip(&self.weights).zip(&self.reference) {
+                    *c = w / (t - r);
+                    total += *c;
+                }
+                c.iter_mut().for_each(|c| *c /= total);
+            }
+            let value = |v: &[f64]| -> f64 {
+                match on_node {
+                    Some(j) => v[base + j],
+                    None => c.iter().zip(&v[base..base + per_panel]).map(|(c, v)| c * v).sum::<f64>(),
+                }
+            };
+            out.delta_n[i] += value(&at_nodes.delta_n);
+            out.delta_k[i] += value(&at_nodes.delta_k);
+            out.mean_n[i] += value(&at_nodes.mean_n);
+            out.mean_k[i] += value(&at_nodes.mean_k);
+        }
+    }
+
+    /// The bands' chosen terms at the nodes, interpolated and added to `out`.
+    fn add_through_nodes(&self, bands: &[Band], terms: Terms, nu: &[f64], out: &mut ShapeSums) {
+        let nodes = self.nodes();
+        let mut at_nodes = ShapeSums::zeros(nodes.len());
+        at_nodes.add_bands(bands, &nodes, terms);
+        self.add_interpolated(&at_nodes, nu, out);
+    }
+}
+
 /// The sums of `bands` at the points `nu` (cm^-1, any order), through nodes
 /// where that saves work.
 pub fn band_sums(bands: &[Band], nu: &[f64]) -> ShapeSums {
@@ -65,65 +148,28 @@ pub fn band_sums(bands: &[Band], nu: &[f64]) -> ShapeSums {
     // The narrowest band sets the panels for all.
     let panel = bands.iter().map(|b| panel_for(&b.lineshape)).min_by(|a, b| a.1.total_cmp(&b.1));
     let Some((per_panel, length)) = panel.filter(|_| hi > lo) else {
-        sums.add_bands(bands, nu);
+        sums.add_bands(bands, nu, Terms::All);
         return sums;
     };
     let panels = ((hi - lo) / length).ceil().max(1.0);
-    let node_count = panels * (per_panel - 1) as f64 + 1.0;
+    let node_count = panels * (per_panel - 1) as f64 + 1.0 + MIRROR_NODES as f64;
     // Interpolating costs about a band's evaluation per point; the nodes
     // pay off only when they are far fewer than the points.
     if node_count * 2.0 >= nu.len() as f64 || bands.len() < 2 {
-        sums.add_bands(bands, nu);
+        sums.add_bands(bands, nu, Terms::All);
         return sums;
     }
-    let panels = panels as usize;
-    let length = (hi - lo) / panels as f64;
-    let reference: Vec<f64> = (0..per_panel).map(|j| -(std::f64::consts::PI * j as f64 / (per_panel - 1) as f64).cos()).collect();
-    // Nodes shared at panel ends: node k * (per_panel - 1) + j of panel k.
-    let nodes: Vec<f64> = (0..panels)
-        .flat_map(|k| {
-            let start = lo + length * k as f64;
-            let first = if k == 0 { 0 } else { 1 };
-            reference[first..].iter().map(move |t| start + length * (t + 1.0) / 2.0).collect::<Vec<_>>()
-        })
-        .collect();
-    let mut at_nodes = ShapeSums::zeros(nodes.len());
-    at_nodes.add_bands(bands, &nodes);
-    // Barycentric weights of Chebyshev-Lobatto points: (-1)^j, halved at the ends.
-    let weights: Vec<f64> = (0..per_panel)
-        .map(|j| {
-            let w = if j % 2 == 0 { 1.0 } else { -1.0 };
-            if j == 0 || j == per_panel - 1 {
-                w / 2.0
-            } else {
-                w
-            }
-        })
-        .collect();
-    let mut c = vec![0.0; per_panel];
-    for (i, x) in nu.iter().enumerate() {
-        let k = (((x - lo) / length) as usize).min(panels - 1);
-        let t = 2.0 * (x - lo - length * k as f64) / length - 1.0;
-        let base = k * (per_panel - 1);
-        let on_node = reference.iter().position(|r| *r == t);
-        if on_node.is_none() {
-            let mut total = 0.0;
-            for ((c, w), r) in c.iter_mut().zip(&weights).zip(&reference) {
-                *c = w / (t - r);
-                total += *c;
-            }
-            c.iter_mut().for_each(|c| *c /= total);
-        }
-        let values = |v: &[f64]| -> f64 {
-            match on_node {
-                Some(j) => v[base + j],
-                None => c.iter().zip(&v[base..base + per_panel]).map(|(c, v)| c * v).sum::<f64>(),
-            }
-        };
-        sums.delta_n[i] = values(&at_nodes.delta_n);
-        sums.delta_k[i] = values(&at_nodes.delta_k);
-        sums.mean_n[i] = values(&at_nodes.mean_n);
-        sums.mean_k[i] = values(&at_nodes.mean_k);
+    // The mirror terms go apart only where every Gaussian's lies in Dawson's
+    // asymptotic range (exp(-x^2) nil, F ~ 1/2x), as it does for any band
+    // narrower than about a tenth of its wavenumber.
+    let apart = bands.iter().all(|b| match b.lineshape {
+        Lineshape::Gaussian { center, delta } => (lo + center) / delta >= MIRROR_APART_FROM,
+        _ => true,
+    });
+    let own = if apart { Terms::Own } else { Terms::All };
+    Panels::new(lo, hi, panels as usize, per_panel).add_through_nodes(bands, own, nu, &mut sums);
+    if apart && bands.iter().any(|b| matches!(b.lineshape, Lineshape::Gaussian { .. })) {
+        Panels::new(lo, hi, 1, MIRROR_NODES).add_through_nodes(bands, Terms::Mirror, nu, &mut sums);
     }
     sums
 }
@@ -131,6 +177,6 @@ pub fn band_sums(bands: &[Band], nu: &[f64]) -> ShapeSums {
 /// The sums made at the points themselves, for checks.
 pub fn band_sums_direct(bands: &[Band], nu: &[f64]) -> ShapeSums {
     let mut sums = ShapeSums::zeros(nu.len());
-    sums.add_bands(bands, nu);
+    sums.add_bands(bands, nu, Terms::All);
     sums
 }

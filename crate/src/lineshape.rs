@@ -433,6 +433,16 @@ impl VoigtMirror {
     }
 }
 
+/// Which of a band's terms [`Lineshape::accumulate`] adds: a Gaussian's
+/// mirror term at -nu_j varies on the scale of nu itself, so `band_sum`
+/// takes it at far fewer nodes than its own term at +nu_j.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Terms {
+    All,
+    Own,
+    Mirror,
+}
+
 /// Beyond this |x| a Gaussian's exp(-x^2) is below 3e-17 of its peak.
 const GAUSSIAN_NEGLIGIBLE_BEYOND: f64 = 6.2;
 
@@ -442,21 +452,39 @@ impl Lineshape {
     /// themselves approximations (`band_sum`): a Gaussian's exp(-x^2) is
     /// taken as 0 beyond |x| = 6.2 (below 3e-17 of its peak), which spares
     /// most exp calls; the other shapes are as [`Lineshape::values_with_mean`].
-    pub fn accumulate(&self, nu: &[f64], ln_nu: &[f64], chiral: f64, mean: f64, sums: [&mut [f64]; 4]) {
+    pub fn accumulate(&self, nu: &[f64], ln_nu: &[f64], chiral: f64, mean: f64, sums: [&mut [f64]; 4], terms: Terms) {
         let [dn, dk, mn, mk] = sums;
         if let Lineshape::Gaussian { center, delta } = *self {
             let g = GaussianTerms::new(center, delta);
             let near = |x: f64| if x.abs() < GAUSSIAN_NEGLIGIBLE_BEYOND { (-x * x).exp() } else { 0.0 };
+            // The pair at +nu_j and its mirror at -nu_j (odd in F for the mean index).
+            let (own, mirror) = match terms {
+                Terms::All => (true, true),
+                Terms::Own => (true, false),
+                Terms::Mirror => (false, true),
+            };
             for (i, x) in nu.iter().enumerate() {
-                let x1 = (x - g.center) * g.inv_delta;
-                let x2 = (x + g.center) * g.inv_delta;
-                let (f1, f2) = (dawson(x1), dawson(x2));
-                let im = g.im_scale * (near(x1) + near(x2));
-                dn[i] += chiral * g.re_scale * (f1 + f2);
+                let (mut f, mut fm, mut gs) = (0.0, 0.0, 0.0);
+                if own {
+                    let x1 = (x - g.center) * g.inv_delta;
+                    let f1 = dawson(x1);
+                    (f, fm, gs) = (f1, f1, near(x1));
+                }
+                if mirror {
+                    let x2 = (x + g.center) * g.inv_delta;
+                    let f2 = dawson(x2);
+                    (f, fm, gs) = (f + f2, fm - f2, gs + near(x2));
+                }
+                let im = g.im_scale * gs;
+                dn[i] += chiral * g.re_scale * f;
                 dk[i] += chiral * im;
-                mn[i] += mean * g.re_scale * (f1 - f2);
+                mn[i] += mean * g.re_scale * fm;
                 mk[i] += mean * im;
             }
+            return;
+        }
+        // Other shapes are not split: their mirror goes with their own part.
+        if terms == Terms::Mirror {
             return;
         }
         let (shape, mean_re) = self.values_with_mean(nu, ln_nu);

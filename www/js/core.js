@@ -133,8 +133,9 @@ export function themeColours(dark) {
   return r.ok ? [r.background, r.text, r.muted, r.grid] : [];
 }
 
-/** Validates, evaluates and redraws: the reply names the field at fault. */
-export const update = (doc, options) => reply(() => workbench.update(doc, options));
+/** Validates, evaluates and redraws: the reply names the field at fault. The
+ * document crosses as its JSON text, far quicker than an object when large. */
+export const update = (doc, options) => reply(() => workbench.update(JSON.stringify(doc), options));
 /** Redraws the last good model with new options. */
 export const redraw = (options) => reply(() => workbench.redraw(options));
 export const readout = (x) => {

@@ -275,8 +275,8 @@ pub fn draw<DB: DrawingBackend>(area: &DrawingArea<DB, Shift>, req: &PlotRequest
     };
     let mut chart = draw::chart(&main, &layout, &x, &y, y2.as_ref())?;
     draw::mesh(&mut chart, &layout, &theme, (&x, req.axis), (&y, req.y_label()), y2.as_ref())?;
-    draw::zero_line(&mut chart, &layout, &theme, &x, &y)?;
     sticks::draw(&mut chart, &layout, &theme, &sticks, &x, &y)?;
+    draw::zero_line(&mut chart, &layout, &theme, &x, &y)?;
     let at = Placement { xs: &xs, visible: &visible, x: &x, y: &y, y2: y2.as_ref(), legend: req.legend };
     let keyed = draw::traces(&mut chart, &layout, &sums, &bands, &at)?;
     points::draw_sets(&mut chart, &layout, &theme, &sets, &x, &y, |s| Some(&s.y))?;

@@ -50,7 +50,10 @@ pub fn widen((lo, hi): (f64, f64), sticks: &[(f64, f64)], (x_lo, x_hi): (f64, f6
     sticks.iter().filter(|(x, h)| *x >= x_lo && *x <= x_hi && h.is_finite()).fold((lo, hi), |(lo, hi), (_, h)| (lo.min(*h), hi.max(*h)))
 }
 
-/// Draws the visible sticks from the zero line, thin, in the muted colour.
+/// Draws the visible sticks from the zero line, thin, in the muted colour,
+/// as one path (up each stick, back down, along zero to the next): a path
+/// per stick made the page stroke a thousand paths per plot. The path's runs
+/// along zero lie under the zero line (or the frame), drawn after it.
 pub fn draw<DB: DrawingBackend>(
     chart: &mut Chart<'_, DB>,
     layout: &Layout,
@@ -59,9 +62,14 @@ pub fn draw<DB: DrawingBackend>(
     x: &XAxis,
     y: &AxisScale,
 ) -> Result<()> {
+    let mut shown: Vec<(f64, f64)> =
+        sticks.iter().filter(|(px, h)| *px >= x.lo && *px <= x.hi && h.is_finite()).map(|(px, h)| (px * x.sign, h * y.factor)).collect();
+    if shown.is_empty() {
+        return Ok(());
+    }
+    shown.sort_by(|a, b| a.0.total_cmp(&b.0));
+    let path: Vec<(f64, f64)> = shown.iter().flat_map(|&(px, h)| [(px, 0.0), (px, h), (px, 0.0)]).collect();
     let style = ShapeStyle::from(&theme.muted).stroke_width(layout.line_scale.round().max(1.0) as u32);
-    let shown = sticks.iter().filter(|(px, h)| *px >= x.lo && *px <= x.hi && h.is_finite());
-    let paths = shown.map(|(px, h)| PathElement::new(vec![(px * x.sign, 0.0), (px * x.sign, h * y.factor)], style));
-    chart.draw_series(paths).map_err(draw_error)?;
+    chart.draw_series(std::iter::once(PathElement::new(path, style))).map_err(draw_error)?;
     Ok(())
 }

@@ -66,8 +66,14 @@ fn show_fatal(message: &str) {
     }
 }
 
-/// Reads a JS object as a document, with the core's field-naming errors.
+/// Reads a JS object, or its JSON text, as a document, with the core's
+/// field-naming errors. The text is the fast way in for a large document
+/// (a thousand computed transitions): one string crosses, where an object
+/// is read property by property across the boundary.
 fn document_from_js(value: JsValue) -> Result<Document, Error> {
+    if let Some(text) = value.as_string() {
+        return Document::from_json(&text);
+    }
     let json: serde_json::Value =
         serde_wasm_bindgen::from_value(value).map_err(|e| Error::new(ErrorKind::Syntax, "", format!("not a document: {e}")))?;
     Document::from_value(json)

@@ -28,6 +28,7 @@ fn conformers() -> Vec<Conformer> {
                     dipole_debye2: None,
                     rotatory_length: Some(10.0 * (((k * 13 + c * 5) % 17) as f64 - 8.0)),
                     rotatory_velocity: None,
+                    fwhm_ev: None,
                 })
                 .collect(),
         })

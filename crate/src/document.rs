@@ -130,8 +130,8 @@ pub struct ConformerDoc {
 }
 
 /// One computed transition: its excitation energy (eV) or wavelength (nm),
-/// its oscillator strength and/or dipole strength, and its rotatory strength
-/// in the length and/or velocity form (1e-40 cgs).
+/// its oscillator strength and/or dipole strength, its rotatory strength
+/// in the length and/or velocity form (1e-40 cgs), and optionally its own width.
 #[derive(Debug, Clone, PartialEq, Default, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct ExcitedStateDoc {
@@ -147,6 +147,10 @@ pub struct ExcitedStateDoc {
     pub rotatory_length_1e40_cgs: Option<f64>,
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub rotatory_velocity_1e40_cgs: Option<f64>,
+    /// This transition's own FWHM (of a Voigt's Gaussian part), eV, in place
+    /// of the broadening's.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub fwhm_ev: Option<f64>,
 }
 
 /// Chromophores whose transitions couple through the dipole field (DeVoe's

@@ -72,6 +72,7 @@ fn oscillator_and_dipole_strengths_convert_by_the_standard_relation() {
         dipole_debye2: None,
         rotatory_length: Some(1.0),
         rotatory_velocity: None,
+        fwhm_ev: None,
     };
     let nu = AxisUnit::ElectronVolt.to_wavenumber(5.0);
     assert!((states::dipole_strength(&t).expect("d") * 4.702e-7 * nu / 0.2 - 1.0).abs() < 1e-3);
@@ -286,4 +287,31 @@ fn each_stick_is_as_tall_as_its_own_band_at_its_centre() {
     mdeg.cd_unit = chiroptic::units::CdUnit::Millidegrees;
     assert!((sticks(&mdeg)[1].1 / s.ellipticity_mdeg[1] - 1.0).abs() < 1e-9);
     assert!(sticks(&PlotRequest::new(PlotKind::Ord, &s, AxisUnit::ElectronVolt, range)).is_empty());
+}
+
+#[test]
+fn a_transition_may_carry_its_own_width() {
+    // A sigma or FWHM column (eV) replaces the broadening's width for its
+    // rows: FWHM = 2 sqrt(2 ln 2) sigma (common practice), 1 eV = 8065.543937
+    // cm^-1 (CODATA 2018); rows of a list without one keep the common width.
+    let list = "conformer A, energy 0 kcal/mol\nenergy_eV f R sigma_eV\n4.0 0.1 20 0.1\n5.0 0.1 20 0.2\n\
+                conformer B, energy 0 kcal/mol\nenergy_eV, f, R, FWHM (eV)\n6.0, 0.1, 10, 0.5\n\
+                conformer C, energy 0 kcal/mol\nenergy_eV f R\n6.5 0.1 10\n";
+    let c = table::parse(list).expect("reads");
+    let b = Broadening::default();
+    let bands = states::bands(&c, &b).expect("bands");
+    let fwhm_per_sigma = 2.0 * (2.0 * std::f64::consts::LN_2).sqrt();
+    for (band, fwhm_ev) in bands.iter().zip([0.1 * fwhm_per_sigma, 0.2 * fwhm_per_sigma, 0.5, states::DEFAULT_FWHM_EV]) {
+        assert!((band.fwhm_cm1 / (fwhm_ev * 8065.543937) - 1.0).abs() < 1e-9, "{} vs {fwhm_ev} eV", band.fwhm_cm1);
+    }
+    // The document keeps each width, and a bad one is named.
+    let section = states::doc::to_doc(&c, &b);
+    assert_eq!(states::doc::from_doc(&section).expect("valid").0, c);
+    let mut bad = section.clone();
+    bad.conformers[1].transitions[0].fwhm_ev = Some(-0.5);
+    let e = states::doc::from_doc(&bad).expect_err("negative width");
+    assert!(e.to_string().contains("states.conformers[1].transitions[0].fwhm_ev"), "{e}");
+    let e = table::parse("conformer A, energy 0 eV\nenergy_eV f R fwhm_eV\n4.5 0.1 3 -0.2\n").expect_err("negative");
+    assert_eq!(e.line, 3);
+    assert!(e.message.contains("width must be positive"), "{e}");
 }

@@ -221,6 +221,21 @@ test("dragging the FWHM slider is one undo step, even with a pause; ↑ steps th
   }
 });
 
+test("a width typed as σ sets the FWHM by FWHM = 2√(2 ln 2) σ", async () => {
+  // The Gaussian relation (common practice), computed here, not read from the page.
+  const { page, context } = await withExample();
+  try {
+    await typeInto(page, "#states-sigma", "0.1");
+    const fwhm = (await docOf(page)).states.broadening.fwhm_ev;
+    assertClose(fwhm, 0.1 * 2 * Math.sqrt(2 * Math.LN2), 1e-12, "FWHM from σ");
+    assertClose(Number(await page.inputValue("#states-fwhm")), fwhm, 1e-4, "the FWHM box follows (5 digits shown)");
+    await typeInto(page, "#states-fwhm", "0.5");
+    assertClose(Number(await page.inputValue("#states-sigma")), 0.5 / (2 * Math.sqrt(2 * Math.LN2)), 1e-4, "and σ follows the FWHM");
+  } finally {
+    await context.close();
+  }
+});
+
 test("the exported CD follows the width and integrates back to the population-weighted R and D", async () => {
   const { page, context } = await withExample();
   try {

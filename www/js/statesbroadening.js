@@ -86,6 +86,19 @@ export function broadeningControls() {
       sliderStep: 0.005,
     }),
   ];
+  // The trade quotes a Gaussian's width as FWHM or as sigma: both boxes set the one FWHM.
+  if (b().shape !== "lorentz") {
+    grid.push(
+      numberField("states-sigma", "or σ", "eV", {
+        path: "states.broadening.fwhm_ev",
+        get: () => b().fwhm_ev / k.fwhm_per_sigma,
+        set: (v) => (b().fwhm_ev = v * k.fwhm_per_sigma),
+        step: () => 0.005,
+        range: () => FWHM_SLIDER_EV.map((w) => w / k.fwhm_per_sigma),
+        sliderStep: 0.002,
+      }),
+    );
+  }
   if (b().shape === "voigt") {
     grid.push(
       numberField("states-lorentz", "Lorentzian FWHM", "eV", {

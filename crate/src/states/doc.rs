@@ -159,6 +159,9 @@ fn transition(at: &str, t: &ExcitedStateDoc) -> Result<Transition> {
             }
         }
     }
+    if let Some(w) = t.fwhm_ev {
+        crate::error::positive(&format!("{at}.fwhm_ev"), w, "width")?;
+    }
     for (name, v) in
         [("rotatory_length_1e40_cgs", t.rotatory_length_1e40_cgs), ("rotatory_velocity_1e40_cgs", t.rotatory_velocity_1e40_cgs)]
     {
@@ -172,6 +175,7 @@ fn transition(at: &str, t: &ExcitedStateDoc) -> Result<Transition> {
         dipole_debye2: t.dipole_strength_debye2,
         rotatory_length: t.rotatory_length_1e40_cgs,
         rotatory_velocity: t.rotatory_velocity_1e40_cgs,
+        fwhm_ev: t.fwhm_ev,
     })
 }
 
@@ -210,6 +214,7 @@ pub fn to_doc(conformers: &[Conformer], b: &Broadening) -> StatesDoc {
                         dipole_strength_debye2: t.dipole_debye2,
                         rotatory_length_1e40_cgs: t.rotatory_length,
                         rotatory_velocity_1e40_cgs: t.rotatory_velocity,
+                        fwhm_ev: t.fwhm_ev,
                     })
                     .collect();
                 d

@@ -32,6 +32,8 @@ pub struct Transition {
     /// Rotatory strengths, 1e-40 cgs, in the length and velocity forms.
     pub rotatory_length: Option<f64>,
     pub rotatory_velocity: Option<f64>,
+    /// Its own FWHM (of a Voigt's Gaussian part), eV, in place of the broadening's.
+    pub fwhm_ev: Option<f64>,
 }
 
 #[derive(Debug, Clone, PartialEq)]
@@ -260,7 +262,7 @@ fn owned_bands(conformers: &[Conformer], b: &Broadening, named: bool) -> Result<
                     name: if named { format!("{} {} {:.3} eV", c.name, k + 1, t.energy_ev) } else { String::new() },
                     shape: b.shape.clone(),
                     center_nm: AxisUnit::Nanometre.from_wavenumber(nu),
-                    fwhm_cm1: AxisUnit::ElectronVolt.width_to_wavenumber(b.fwhm_ev, nu),
+                    fwhm_cm1: AxisUnit::ElectronVolt.width_to_wavenumber(t.fwhm_ev.unwrap_or(b.fwhm_ev), nu),
                     lorentz_fwhm_cm1: (b.shape == "voigt").then(|| AxisUnit::ElectronVolt.width_to_wavenumber(b.lorentz_fwhm_ev, nu)),
                     rotatory_strength_1e40_cgs: r,
                     dipole_strength_debye2: d,

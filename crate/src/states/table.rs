@@ -18,7 +18,9 @@
 //! writes them: the excitation as `energy_eV`, `E (eV)`, `eV` or
 //! `wavelength_nm`, `λ/nm`, `nm`; the strengths as `f` (oscillator strength)
 //! and/or `D` (dipole strength, debye^2); rotatory strengths (1e-40 cgs) as
-//! `R`, `R_length`/`R_len`/`R(length)` and `R_velocity`/`R_vel`/`R(velocity)`.
+//! `R`, `R_length`/`R_len`/`R(length)` and `R_velocity`/`R_vel`/`R(velocity)`;
+//! optionally a transition's own width as `fwhm_eV` or `sigma_eV` (`σ (eV)`),
+//! in place of the broadening's (one width for all).
 //! Any other column (a state number, a symmetry label) is ignored.
 
 use super::{Conformer, ConformerEnergy, Transition};
@@ -50,6 +52,8 @@ enum Column {
     Dipole,
     RotatoryLength,
     RotatoryVelocity,
+    FwhmEv,
+    SigmaEv,
     Ignored,
 }
 
@@ -75,6 +79,8 @@ fn column(header: &str) -> Column {
         "d" | "ddebye2" | "dipolestrength" | "ddebye²" => Column::Dipole,
         "r" | "rlength" | "rlen" | "rl" | "rotatorystrength" | "rlengthgauge" => Column::RotatoryLength,
         "rvelocity" | "rvel" | "rv" | "rvelocitygauge" => Column::RotatoryVelocity,
+        "fwhmev" | "fwhm" => Column::FwhmEv,
+        "sigmaev" | "sigma" | "σev" | "σ" => Column::SigmaEv,
         _ => Column::Ignored,
     }
 }
@@ -181,7 +187,14 @@ pub fn parse(text: &str) -> Result<Vec<Conformer>, TableError> {
 }
 
 fn row(cols: &[Column], f: &[&str], line: usize) -> Result<Transition, TableError> {
-    let mut t = Transition { energy_ev: f64::NAN, oscillator: None, dipole_debye2: None, rotatory_length: None, rotatory_velocity: None };
+    let mut t = Transition {
+        energy_ev: f64::NAN,
+        oscillator: None,
+        dipole_debye2: None,
+        rotatory_length: None,
+        rotatory_velocity: None,
+        fwhm_ev: None,
+    };
     for (k, (c, v)) in cols.iter().zip(f).enumerate() {
         if *c == Column::Ignored {
             continue;
@@ -199,6 +212,8 @@ fn row(cols: &[Column], f: &[&str], line: usize) -> Result<Transition, TableErro
             Column::Dipole => t.dipole_debye2 = Some(value),
             Column::RotatoryLength => t.rotatory_length = Some(value),
             Column::RotatoryVelocity => t.rotatory_velocity = Some(value),
+            Column::FwhmEv => t.fwhm_ev = Some(value),
+            Column::SigmaEv => t.fwhm_ev = Some(super::fwhm_from_sigma(value)),
             Column::Ignored => {}
         }
     }
@@ -210,6 +225,9 @@ fn row(cols: &[Column], f: &[&str], line: usize) -> Result<Transition, TableErro
     }
     if t.dipole_debye2.is_some_and(|d| d < 0.0) {
         return err(line, "a dipole strength cannot be negative");
+    }
+    if t.fwhm_ev.is_some_and(|w| w <= 0.0) {
+        return err(line, "a transition's width must be positive (eV)");
     }
     Ok(t)
 }

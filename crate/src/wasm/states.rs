@@ -40,6 +40,7 @@ pub fn states_catalog() -> JsValue {
         "scale": usual.scale,
         "voigt_lorentz_fwhm_ev": VOIGT_START_LORENTZ_FWHM_EV,
         "max_shift_ev": MAX_SHIFT_EV,
+        "fwhm_per_sigma": states::fwhm_from_sigma(1.0),
         "max_transitions": crate::limits::MAX_DOCUMENT_TRANSITIONS,
         "energy_fields": energy_fields,
         "caution": states::SUM_OVER_STATES_CAUTION,

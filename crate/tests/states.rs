@@ -315,3 +315,25 @@ fn a_transition_may_carry_its_own_width() {
     assert_eq!(e.line, 3);
     assert!(e.message.contains("width must be positive"), "{e}");
 }
+
+#[test]
+fn faults_of_shares_and_broadening_are_placed_in_the_section() {
+    // The page shows a refusal beside the control its field names.
+    let mut doc = states_document(&Broadening::default());
+    let section = doc.states.as_mut().expect("states");
+    section.conformers[0].share = Some(0.8);
+    section.conformers[1].share = None;
+    let text = format!("{EXAMPLE}conformer C, energy 1.2 kcal/mol\nenergy_eV f R\n5.0 0.1 5\n");
+    let mut three = states_document(&Broadening::default());
+    three.states = Some(states::doc::to_doc(&table::parse(&text).expect("reads"), &Broadening::default()));
+    let s = three.states.as_mut().expect("states");
+    s.conformers[0].share = Some(0.7);
+    s.conformers[1].share = Some(0.4);
+    let e = Model::from_document(&three).expect_err("110 %");
+    assert_eq!(e.field, "states.conformers", "{e}");
+    let mut shifted = states_document(&Broadening::default());
+    shifted.states.as_mut().expect("states").broadening.shift_ev = -5.0;
+    let e = Model::from_document(&shifted).expect_err("below zero");
+    assert_eq!(e.field, "states.broadening.shift_ev", "{e}");
+    assert!(Model::from_document(&doc).is_ok(), "80 % for A leaves B the rest");
+}

@@ -207,12 +207,12 @@ pub struct ComputedStates {
 impl ComputedStates {
     pub fn from_doc(section: &crate::document::StatesDoc) -> Result<ComputedStates> {
         let (conformers, b) = doc::from_doc(section)?;
-        let populations = populations(&conformers, b.temperature_k)?;
+        let populations = populations(&conformers, b.temperature_k).map_err(in_section)?;
         let mut bands = Vec::new();
         let mut origin = Vec::new();
         // Unnamed (the band list does not show them), the field path made
         // only for an error: a thousand transitions are read on every edit.
-        for (c, k, band) in owned_bands(&conformers, &b, false)? {
+        for (c, k, band) in owned_bands(&conformers, &b, false).map_err(in_section)? {
             let placed =
                 |e: Error| Error { field: e.field.replacen("states", &format!("states.conformers[{c}].transitions[{k}]"), 1), ..e };
             bands.push(crate::model::band_from_doc("states", bands.len(), &band).map_err(placed)?);
@@ -220,6 +220,18 @@ impl ComputedStates {
         }
         Ok(ComputedStates { bands, origin, populations })
     }
+}
+
+/// A fault of the populations or the broadening, named by its place in the
+/// document's `states` section (so the page shows it beside its control).
+pub fn in_section(e: Error) -> Error {
+    let field = match e.field.as_str() {
+        "share" | "conformers" => "states.conformers".to_string(),
+        "temperature" => "states.temperature_k".to_string(),
+        f @ ("fwhm_ev" | "scale" | "shift_ev" | "local_field") => format!("states.broadening.{f}"),
+        _ => return e,
+    };
+    Error { field, ..e }
 }
 
 fn owned_bands(conformers: &[Conformer], b: &Broadening, named: bool) -> Result<Vec<(usize, usize, BandDoc)>> {

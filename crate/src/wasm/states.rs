@@ -77,7 +77,7 @@ pub fn states_populations(doc: JsValue) -> JsValue {
         let section =
             doc.states.as_ref().ok_or_else(|| Error::new(ErrorKind::MissingField, "states", "the model holds no computed states"))?;
         let (conformers, b) = states::doc::from_doc(section)?;
-        states::populations(&conformers, b.temperature_k)
+        states::populations(&conformers, b.temperature_k).map_err(states::in_section)
     });
     reply::reply_one("populations", result)
 }

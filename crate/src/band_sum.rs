@@ -143,22 +143,20 @@ impl Panels {
 /// The sums of `bands` at the points `nu` (cm^-1, any order), through nodes
 /// where that saves work.
 pub fn band_sums(bands: &[Band], nu: &[f64]) -> ShapeSums {
-    let mut sums = ShapeSums::zeros(nu.len());
     let (lo, hi) = nu.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), x| (a.min(*x), b.max(*x)));
     // The narrowest band sets the panels for all.
     let panel = bands.iter().map(|b| panel_for(&b.lineshape)).min_by(|a, b| a.1.total_cmp(&b.1));
     let Some((per_panel, length)) = panel.filter(|_| hi > lo) else {
-        sums.add_bands(bands, nu, Terms::All);
-        return sums;
+        return band_sums_direct(bands, nu);
     };
     let panels = ((hi - lo) / length).ceil().max(1.0);
     let node_count = panels * (per_panel - 1) as f64 + 1.0 + MIRROR_NODES as f64;
     // Interpolating costs about a band's evaluation per point; the nodes
     // pay off only when they are far fewer than the points.
     if node_count * 2.0 >= nu.len() as f64 || bands.len() < 2 {
-        sums.add_bands(bands, nu, Terms::All);
-        return sums;
+        return band_sums_direct(bands, nu);
     }
+    let mut sums = ShapeSums::zeros(nu.len());
     // The mirror terms go apart only where every Gaussian's lies in Dawson's
     // asymptotic range (exp(-x^2) nil, F ~ 1/2x), as it does for any band
     // narrower than about a tenth of its wavenumber.

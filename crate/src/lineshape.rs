@@ -128,6 +128,16 @@ impl Lineshape {
         Lineshape::Voigt { center, delta: gaussian_delta_from_fwhm(gaussian_fwhm), lorentz_fwhm }
     }
 
+    /// Its full widths at half maximum added (a Voigt's Gaussian and
+    /// Lorentzian parts), cm^-1: how far it reaches, for framing.
+    pub fn full_width(&self) -> f64 {
+        match *self {
+            Lineshape::Lorentz { gamma, .. } => gamma,
+            Lineshape::Gaussian { delta, .. } => delta / gaussian_delta_from_fwhm(1.0),
+            Lineshape::Voigt { delta, lorentz_fwhm, .. } => delta / gaussian_delta_from_fwhm(1.0) + lorentz_fwhm,
+        }
+    }
+
     /// The same band with every width times `k` (the similarity's width search).
     pub fn widened(&self, k: f64) -> Lineshape {
         match *self {
@@ -231,6 +241,18 @@ impl GaussianTerms {
         let x1 = (nu - self.center) * self.inv_delta;
         let x2 = (nu + self.center) * self.inv_delta;
         Complex64::new(self.re_scale * (dawson(x1) + dawson(x2)), self.im_scale * (gauss(x1) + gauss(x2)))
+    }
+
+    /// Im s or Re s alone: Im needs only exp, Re only Dawson.
+    #[inline]
+    fn part(&self, nu: f64, imaginary: bool) -> f64 {
+        let x1 = (nu - self.center) * self.inv_delta;
+        let x2 = (nu + self.center) * self.inv_delta;
+        if imaginary {
+            self.im_scale * (gauss(x1) + gauss(x2))
+        } else {
+            self.re_scale * (dawson(x1) + dawson(x2))
+        }
     }
 
     /// Re s~: the n-k partner of the odd pair of Gaussians
@@ -488,12 +510,22 @@ impl Lineshape {
             return;
         }
         let (shape, mean_re) = self.values_with_mean(nu, ln_nu);
-        for (i, (s, m)) in shape.iter().zip(&mean_re).enumerate() {
-            dn[i] += chiral * s.re;
-            dk[i] += chiral * s.im;
-            mn[i] += mean * m;
-            mk[i] += mean * s.im;
-        }
+        add_shape([dn, dk, mn, mk], chiral, mean, &shape, &mean_re);
+    }
+}
+
+/// Adds chiral * s and mean * s~ (its Re the given mean dispersion, its Im
+/// Im s) to the four sums Dn, Dk, mean n, mean k: the one loop every band of
+/// `spectra` and `band_sum` runs.
+pub fn add_shape(sums: [&mut [f64]; 4], chiral: f64, mean: f64, shape: &[Complex64], mean_dispersion: &[f64]) {
+    let [dn, dk, mn, mk] = sums;
+    // Zipped, not indexed: no bounds check in the loop.
+    let out = dn.iter_mut().zip(dk.iter_mut()).zip(mn.iter_mut().zip(mk.iter_mut()));
+    for (((dn, dk), (mn, mk)), (s, m)) in out.zip(shape.iter().zip(mean_dispersion)) {
+        *dn += chiral * s.re;
+        *dk += chiral * s.im;
+        *mn += mean * m;
+        *mk += mean * s.im;
     }
 }
 
@@ -579,7 +611,7 @@ impl Lineshape {
     #[inline]
     pub fn part(&self, nu: f64, imaginary: bool) -> f64 {
         match *self {
-            Lineshape::Gaussian { center, delta } => gaussian_part(center, delta, nu, imaginary).value,
+            Lineshape::Gaussian { center, delta } => GaussianTerms::new(center, delta).part(nu, imaginary),
             _ => {
                 let v = self.value(nu);
                 if imaginary {
@@ -611,18 +643,18 @@ impl Lineshape {
 /// Im w' = (2/sqrt(pi)) (1 - 2 x F).
 #[inline]
 fn gaussian_part(center: f64, delta: f64, nu: f64, imaginary: bool) -> PartDerivatives {
-    let inv = 1.0 / delta;
+    let g = GaussianTerms::new(center, delta);
+    let inv = g.inv_delta;
     let (x1, x2) = ((nu - center) * inv, (nu + center) * inv);
-    let k = inv / PI.sqrt();
     let (value, d_center, spread) = if imaginary {
-        let (g1, g2) = (gauss(x1), gauss(x2));
+        let (k, g1, g2) = (g.im_scale, gauss(x1), gauss(x2));
         // Im[i k (w2' - w1')] / Delta and the x Re w' sum of d/dDelta.
         (k * (g1 + g2), k * 2.0 * (x1 * g1 - x2 * g2) * inv, k * 2.0 * (x1 * x1 * g1 + x2 * x2 * g2) * inv)
     } else {
         let (f1, f2) = (dawson(x1), dawson(x2));
-        let m = k * 2.0 / PI.sqrt();
-        let (i1, i2) = (1.0 - 2.0 * x1 * f1, 1.0 - 2.0 * x2 * f2);
-        (-m * (f1 + f2), -m * (i2 - i1) * inv, m * (x1 * i1 + x2 * i2) * inv)
+        // re_scale = -(2/sqrt(pi)) k.
+        let (m, i1, i2) = (g.re_scale, 1.0 - 2.0 * x1 * f1, 1.0 - 2.0 * x2 * f2);
+        (m * (f1 + f2), m * (i2 - i1) * inv, -m * (x1 * i1 + x2 * i2) * inv)
     };
     // d/dDelta = -value/Delta + spread; d/dFWHM through Delta = FWHM/(2 sqrt(ln 2)).
     let d_fwhm = (-value * inv + spread) * gaussian_delta_from_fwhm(1.0);

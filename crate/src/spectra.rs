@@ -170,14 +170,7 @@ pub fn evaluate_reusing(model: &Model, wavenumber_cm1: &[f64], previous: Option<
             Some(b) => (b.shape.clone(), b.mean_dispersion.clone()),
             None => band.lineshape.values_with_mean(wavenumber_cm1, &ln_nu),
         };
-        // Zipped, not indexed: no bounds check in the one loop every band runs.
-        let sums = delta_n.iter_mut().zip(delta_k.iter_mut()).zip(dn_mean.iter_mut().zip(k_mean.iter_mut()));
-        for (((dn, dk), (mn, mk)), (s, m)) in sums.zip(shape.iter().zip(&mean_re)) {
-            *dn += r * s.re;
-            *dk += r * s.im;
-            *mn += d * m;
-            *mk += d * s.im;
-        }
+        crate::lineshape::add_shape([&mut delta_n, &mut delta_k, &mut dn_mean, &mut k_mean], r, d, &shape, &mean_re);
         contributions.push(BandContribution {
             name: band.name.clone(),
             chiral: r,

@@ -252,13 +252,15 @@ pub const FRAME_WIDTHS: f64 = 3.0;
 /// A window that shows every band: each centre ± FRAME_WIDTHS full widths
 /// (in wavenumber, where the shapes are symmetric), joined, rounded outward
 /// to whole nm, and kept inside the centres the model accepts and the
-/// solvent series' valid range. With no bands, the default range.
+/// solvent series' valid range. The computed states' bands count too. With
+/// no bands, the default range.
 pub fn frame_bands(doc: &Document, model: &Model) -> (f64, f64) {
     let nm = |nu: f64| AxisUnit::Nanometre.from_wavenumber(nu);
     let mut span: Option<(f64, f64)> = None;
-    for b in &doc.bands {
-        let nu = AxisUnit::Nanometre.to_wavenumber(b.center_nm);
-        let width = b.fwhm_cm1 + b.lorentz_fwhm_cm1.unwrap_or(0.0);
+    // The document's own numbers for its bands (as typed); the model's for the states'.
+    let own = doc.bands.iter().map(|b| (AxisUnit::Nanometre.to_wavenumber(b.center_nm), b.fwhm_cm1 + b.lorentz_fwhm_cm1.unwrap_or(0.0)));
+    let states = model.states.iter().flat_map(|s| s.bands.iter().map(|b| (b.lineshape.center(), b.lineshape.full_width())));
+    for (nu, width) in own.chain(states) {
         let reach = FRAME_WIDTHS * width;
         // The long-wavelength end stays at a positive wavenumber.
         let (lo, hi) = (nm(nu + reach), nm((nu - reach).max(nu / 4.0)));

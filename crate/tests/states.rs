@@ -337,3 +337,16 @@ fn faults_of_shares_and_broadening_are_placed_in_the_section() {
     assert_eq!(e.field, "states.broadening.shift_ev", "{e}");
     assert!(Model::from_document(&doc).is_ok(), "80 % for A leaves B the rest");
 }
+
+#[test]
+fn frame_bands_counts_the_computed_states() {
+    // The example's transitions span 4.22-6.10 eV (203-294 nm), 0.3 eV wide:
+    // each centre ± 3 FWHM in wavenumber (view::FRAME_WIDTHS), rounded out
+    // to whole nm, with no bands of the document's own.
+    let doc = states_document(&Broadening::default());
+    let model = Model::from_document(&doc).expect("model");
+    let (lo, hi) = chiroptic::view::frame_bands(&doc, &model);
+    let nm = |ev: f64, widths: f64| 1e7 / AxisUnit::ElectronVolt.to_wavenumber(ev + widths * 0.3);
+    assert_eq!(lo, nm(6.10, 3.0).floor(), "short end from the highest state");
+    assert_eq!(hi, nm(4.22, -3.0).ceil(), "long end from the lowest state");
+}

@@ -93,6 +93,23 @@ const STOPPED = { ok: false, error: { kind: "stopped", field: "", message: "the 
 /** A call answering in the core's reply shape; a stopped core answers "stopped". */
 const reply = (fn) => call(fn) ?? STOPPED;
 
+/**
+ * A panel's catalog read from the core on first use and kept: `read` is its
+ * core call, `what` names it. A catalog that does not load is a broken build,
+ * so it throws rather than answering.
+ */
+export function catalogOnce(read, what) {
+  let kept = null;
+  return () => {
+    if (!kept) {
+      const r = read();
+      if (!r.ok) throw new Error(`the core's ${what} catalog does not load: ${r.error.message}`);
+      kept = r;
+    }
+    return kept;
+  };
+}
+
 /** The named field of a successful reply, or a thrown Error with the core's words. */
 function value(fn, name = "value") {
   const r = reply(fn);
@@ -213,5 +230,3 @@ export const statesFromText = (text) => reply(() => wasm.states_from_text(text))
 export const statesPopulations = (doc) => reply(() => wasm.states_populations(doc));
 /** The model's CD and its mirror image against CD set `i` (nm ends optional): `{ ok, unshifted, computed, mirror, range_ev, verdict }`. */
 export const statesCompare = (doc, i, fromNm, toNm, fitWidth, label) => reply(() => wasm.states_compare(doc, i, fromNm, toNm, fitWidth, label));
-/** A window framing the bands and the computed states' bands: `{ ok, range_nm }`. */
-export const statesFrame = (doc) => reply(() => wasm.states_frame(doc));

@@ -16,16 +16,8 @@ import { numberCell } from "./bands.js";
 import { renderChromophores, showVectors } from "./chromophores.js";
 import { bindView3d, drawView3dSoon } from "./view3d.js";
 
-let catalog = null;
 /** The panel's defaults and caps, from the core. */
-export function coupledCatalog() {
-  if (!catalog) {
-    const r = core.coupledCatalog();
-    if (!r.ok) throw new Error(`the core's coupled catalog does not load: ${r.error.message}`);
-    catalog = r;
-  }
-  return catalog;
-}
+export const coupledCatalog = core.catalogOnce(core.coupledCatalog, "coupled");
 
 export const shownSystem = () => state.doc?.systems?.[state.coupled.shown] ?? null;
 

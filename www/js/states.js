@@ -18,16 +18,8 @@ import { broadeningControls, syncBroadening } from "./statesbroadening.js";
 import { populationRows, showPopulations, syncSwitches } from "./statespopulations.js";
 import { bindStatesCompare, renderStatesCompare } from "./statescompare.js";
 
-let catalog = null;
 /** The panel's defaults (shapes, widths, temperature, energy fields), from the core. */
-export function statesCatalog() {
-  if (!catalog) {
-    const r = core.statesCatalog();
-    if (!r.ok) throw new Error(`the core's states catalog does not load: ${r.error.message}`);
-    catalog = r;
-  }
-  return catalog;
-}
+export const statesCatalog = core.catalogOnce(core.statesCatalog, "states");
 
 /** The document's computed states, or null. */
 export const statesSection = () => state.doc?.states ?? null;
@@ -52,7 +44,7 @@ export function loadList(text, source) {
   sayProblem(null);
   state.doc.states = r.states;
   // The window moves to the new transitions, in the same undo step.
-  const frame = core.statesFrame(state.doc);
+  const frame = core.frameBands(state.doc);
   if (frame.ok) viewOf().range_nm = frame.range_nm;
   renderStates();
   edit();

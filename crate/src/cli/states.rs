@@ -115,21 +115,11 @@ pub fn run_compare(doc_path: &Path, data_path: &Path, flags: &ColumnFlags, o: &C
     let range = (o.from_nm, o.to_nm);
     let c = crate::similarity::compare(&model, &set.wavenumbers(), &de, range, o.fit_width).map_err(|e| Failure::input(&origin, e))?;
     let verdict = c.verdict(o.label, o.fit_width);
-    let (s0, shift, s, k, mirror_shift, s_mirror, k_mirror, e_lo, e_hi) = (
-        c.unshifted,
-        c.computed.shift_ev,
-        c.computed.score,
-        c.computed.width_factor,
-        c.mirror.shift_ev,
-        c.mirror.score,
-        c.mirror.width_factor,
-        c.range_ev.0,
-        c.range_ev.1,
-    );
-    let widths = if o.fit_width { format!("best_width_factor,{k},{k_mirror}\n") } else { String::new() };
+    let (computed, mirror) = (c.computed, c.mirror);
+    let widths = if o.fit_width { format!("best_width_factor,{},{}\n", computed.width_factor, mirror.width_factor) } else { String::new() };
     let text = format!(
         "quantity,computed,mirror\nsimilarity_unshifted,{},{}\nsimilarity_best,{},{}\nbest_shift_ev,{},{}\n{widths}# {verdict} (range {:.3}-{:.3} eV; S = ∫ a b dE / sqrt(∫ a² dE ∫ b² dE))\n",
-        s0, -s0, s, s_mirror, shift, mirror_shift, e_lo, e_hi
+        c.unshifted, -c.unshifted, computed.score, mirror.score, computed.shift_ev, mirror.shift_ev, c.range_ev.0, c.range_ev.1
     );
     out.extend_from_slice(text.as_bytes());
     Ok(())

@@ -107,11 +107,10 @@ pub fn fwhm_from_sigma(sigma: f64) -> f64 {
 /// it, and the others divide the rest in their own proportions; when every
 /// enabled conformer has one, the shares are normalised.
 pub fn populations(conformers: &[Conformer], temperature_k: f64) -> Result<Vec<f64>> {
-    let enabled: Vec<bool> = conformers.iter().map(|c| c.enabled).collect();
-    let computed = computed_populations(conformers, &enabled, temperature_k);
     let set: Vec<Option<f64>> = conformers.iter().map(|c| c.share.filter(|_| c.enabled)).collect();
     if set.iter().all(Option::is_none) {
-        return computed;
+        let enabled: Vec<bool> = conformers.iter().map(|c| c.enabled).collect();
+        return computed_populations(conformers, &enabled, temperature_k);
     }
     for (c, s) in conformers.iter().zip(&set) {
         if let Some(s) = s {
@@ -194,31 +193,29 @@ pub fn bands(conformers: &[Conformer], b: &Broadening) -> Result<Vec<BandDoc>> {
 }
 
 /// A document's states made ready for the spectra: one band per transition
-/// (its strengths weighted by population and scale), each with the
-/// conformer and transition it comes from, and the populations.
+/// of every conformer with a share, its strengths weighted by population and
+/// scale.
 #[derive(Debug, Clone, PartialEq)]
 pub struct ComputedStates {
     pub bands: Vec<crate::model::Band>,
-    /// (conformer, transition) of each band.
-    pub origin: Vec<(usize, usize)>,
-    pub populations: Vec<f64>,
 }
 
 impl ComputedStates {
     pub fn from_doc(section: &crate::document::StatesDoc) -> Result<ComputedStates> {
         let (conformers, b) = doc::from_doc(section)?;
-        let populations = populations(&conformers, b.temperature_k).map_err(in_section)?;
-        let mut bands = Vec::new();
-        let mut origin = Vec::new();
         // Unnamed (the band list does not show them), the field path made
         // only for an error: a thousand transitions are read on every edit.
-        for (c, k, band) in owned_bands(&conformers, &b, false).map_err(in_section)? {
-            let placed =
-                |e: Error| Error { field: e.field.replacen("states", &format!("states.conformers[{c}].transitions[{k}]"), 1), ..e };
-            bands.push(crate::model::band_from_doc("states", bands.len(), &band).map_err(placed)?);
-            origin.push((c, k));
-        }
-        Ok(ComputedStates { bands, origin, populations })
+        let bands = owned_bands(&conformers, &b, false)
+            .map_err(in_section)?
+            .into_iter()
+            .enumerate()
+            .map(|(i, (c, k, band))| {
+                let placed =
+                    |e: Error| Error { field: e.field.replacen("states", &format!("states.conformers[{c}].transitions[{k}]"), 1), ..e };
+                crate::model::band_from_doc("states", i, &band).map_err(placed)
+            })
+            .collect::<Result<_>>()?;
+        Ok(ComputedStates { bands })
     }
 }
 

@@ -105,19 +105,3 @@ pub fn states_compare(doc: JsValue, data_index: usize, from_nm: Option<f64>, to_
     });
     reply::reply(result)
 }
-
-/// The window that frames the model's bands together with its computed
-/// states' bands (each centre ± 3 widths, `view::frame_bands`), for the
-/// page to show a list it has just read: `{ ok, range_nm }`.
-#[wasm_bindgen]
-pub fn states_frame(doc: JsValue) -> JsValue {
-    let result = super::document_from_js(doc).and_then(|mut doc| {
-        let model = crate::model::Model::from_document(&doc)?;
-        if let Some(section) = &doc.states {
-            let (conformers, b) = states::doc::from_doc(section)?;
-            doc.bands.extend(states::bands(&conformers, &b)?);
-        }
-        Ok(crate::view::frame_bands(&doc, &model))
-    });
-    reply::reply_one("range_nm", result)
-}

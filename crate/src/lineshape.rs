@@ -46,10 +46,11 @@ pub fn dawson(x: f64) -> f64 {
     } else {
         let table = dawson_table();
         // Nearest node by truncation (a libm round() call costs more than the
-        // polynomial). The index stays in the table: a < 20 and it holds node 2560.
-        let node = (a * DAWSON_NODES_PER_UNIT + 0.5) as usize;
-        let dx = a - node as f64 / DAWSON_NODES_PER_UNIT;
-        let coefficients = &table[node.min(table.len() - 1)];
+        // polynomial). The index stays in the table: a < 20 and it holds node
+        // 2560 (i32, whose conversions are single instructions, unlike usize's).
+        let node = (a * DAWSON_NODES_PER_UNIT + 0.5) as i32;
+        let dx = a - f64::from(node) / DAWSON_NODES_PER_UNIT;
+        let coefficients = &table[(node as usize).min(table.len() - 1)];
         let mut sum = 0.0;
         for c in coefficients.iter().rev() {
             sum = sum * dx + c;
@@ -244,7 +245,7 @@ impl GaussianTerms {
     }
 
     /// Im s or Re s alone: Im needs only exp, Re only Dawson.
-    #[inline]
+    #[inline(always)]
     fn part(&self, nu: f64, imaginary: bool) -> f64 {
         let x1 = (nu - self.center) * self.inv_delta;
         let x2 = (nu + self.center) * self.inv_delta;
@@ -630,7 +631,7 @@ impl Lineshape {
     #[inline]
     pub fn part_derivatives(&self, nu: f64, imaginary: bool) -> PartDerivatives {
         if let Lineshape::Gaussian { center, delta } = *self {
-            return gaussian_part(center, delta, nu, imaginary);
+            return GaussianTerms::new(center, delta).part_derivatives(nu, imaginary);
         }
         let d = self.derivatives(nu);
         let pick = |z: Complex64| if imaginary { z.im } else { z.re };
@@ -638,27 +639,87 @@ impl Lineshape {
     }
 }
 
-/// A Gaussian's part: with x1,2 = (nu -+ nu_j)/Delta and k = 1/(sqrt(pi) Delta),
-/// Im s = k (G1 + G2) and Re s = -(2/sqrt(pi)) k (F1 + F2); Re w' = -2 x G,
-/// Im w' = (2/sqrt(pi)) (1 - 2 x F).
-#[inline]
-fn gaussian_part(center: f64, delta: f64, nu: f64, imaginary: bool) -> PartDerivatives {
-    let g = GaussianTerms::new(center, delta);
-    let inv = g.inv_delta;
-    let (x1, x2) = ((nu - center) * inv, (nu + center) * inv);
-    let (value, d_center, spread) = if imaginary {
-        let (k, g1, g2) = (g.im_scale, gauss(x1), gauss(x2));
-        // Im[i k (w2' - w1')] / Delta and the x Re w' sum of d/dDelta.
-        (k * (g1 + g2), k * 2.0 * (x1 * g1 - x2 * g2) * inv, k * 2.0 * (x1 * x1 * g1 + x2 * x2 * g2) * inv)
-    } else {
-        let (f1, f2) = (dawson(x1), dawson(x2));
-        // re_scale = -(2/sqrt(pi)) k.
-        let (m, i1, i2) = (g.re_scale, 1.0 - 2.0 * x1 * f1, 1.0 - 2.0 * x2 * f2);
-        (m * (f1 + f2), m * (i2 - i1) * inv, -m * (x1 * i1 + x2 * i2) * inv)
-    };
-    // d/dDelta = -value/Delta + spread; d/dFWHM through Delta = FWHM/(2 sqrt(ln 2)).
-    let d_fwhm = (-value * inv + spread) * gaussian_delta_from_fwhm(1.0);
-    PartDerivatives { value, d_center, d_fwhm, d_lorentz_fwhm: 0.0 }
+impl GaussianTerms {
+    /// A Gaussian's part: with x1,2 = (nu -+ nu_j)/Delta and k = 1/(sqrt(pi) Delta),
+    /// Im s = k (G1 + G2) and Re s = -(2/sqrt(pi)) k (F1 + F2); Re w' = -2 x G,
+    /// Im w' = (2/sqrt(pi)) (1 - 2 x F).
+    #[inline(always)]
+    fn part_derivatives(&self, nu: f64, imaginary: bool) -> PartDerivatives {
+        let inv = self.inv_delta;
+        let (x1, x2) = ((nu - self.center) * inv, (nu + self.center) * inv);
+        let (value, d_center, spread) = if imaginary {
+            let (k, g1, g2) = (self.im_scale, gauss(x1), gauss(x2));
+            // Im[i k (w2' - w1')] / Delta and the x Re w' sum of d/dDelta.
+            (k * (g1 + g2), k * 2.0 * (x1 * g1 - x2 * g2) * inv, k * 2.0 * (x1 * x1 * g1 + x2 * x2 * g2) * inv)
+        } else {
+            let (f1, f2) = (dawson(x1), dawson(x2));
+            // re_scale = -(2/sqrt(pi)) k.
+            let (m, i1, i2) = (self.re_scale, 1.0 - 2.0 * x1 * f1, 1.0 - 2.0 * x2 * f2);
+            (m * (f1 + f2), m * (i2 - i1) * inv, -m * (x1 * i1 + x2 * i2) * inv)
+        };
+        // d/dDelta = -value/Delta + spread; d/dFWHM through Delta = FWHM/(2 sqrt(ln 2)).
+        let d_fwhm = (-value * inv + spread) * gaussian_delta_from_fwhm(1.0);
+        PartDerivatives { value, d_center, d_fwhm, d_lorentz_fwhm: 0.0 }
+    }
+}
+
+/// One part of a shape and its derivatives at many wavenumbers, a column
+/// each (the fit's Jacobian takes them column by column).
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct PartColumns {
+    pub value: Vec<f64>,
+    pub d_center: Vec<f64>,
+    pub d_fwhm: Vec<f64>,
+    pub d_lorentz_fwhm: Vec<f64>,
+}
+
+impl PartColumns {
+    /// The columns at every nu from one point's derivatives.
+    #[inline(always)]
+    fn fill(&mut self, nu: &[f64], at: impl Fn(f64) -> PartDerivatives) {
+        for column in [&mut self.value, &mut self.d_center, &mut self.d_fwhm, &mut self.d_lorentz_fwhm] {
+            column.resize(nu.len(), 0.0);
+        }
+        let columns = self.value.iter_mut().zip(self.d_center.iter_mut()).zip(self.d_fwhm.iter_mut()).zip(self.d_lorentz_fwhm.iter_mut());
+        for ((((v, c), w), l), &x) in columns.zip(nu) {
+            let d = at(x);
+            (*v, *c, *w, *l) = (d.value, d.d_center, d.d_fwhm, d.d_lorentz_fwhm);
+        }
+    }
+}
+
+impl Lineshape {
+    /// [`Lineshape::part_derivatives`] at every nu, into `out`'s columns:
+    /// the shape and the part are chosen once, not per point.
+    pub fn part_columns(&self, nu: &[f64], imaginary: bool, out: &mut PartColumns) {
+        match (*self, imaginary) {
+            (Lineshape::Gaussian { center, delta }, true) => {
+                let g = GaussianTerms::new(center, delta);
+                out.fill(nu, |x| g.part_derivatives(x, true));
+            }
+            (Lineshape::Gaussian { center, delta }, false) => {
+                let g = GaussianTerms::new(center, delta);
+                out.fill(nu, |x| g.part_derivatives(x, false));
+            }
+            _ => out.fill(nu, |x| self.part_derivatives(x, imaginary)),
+        }
+    }
+
+    /// sums[i] += strength * (Im or Re of s at nu[i]), the shape and the part chosen once.
+    pub fn add_part(&self, nu: &[f64], imaginary: bool, strength: f64, sums: &mut [f64]) {
+        let points = sums.iter_mut().zip(nu);
+        match (*self, imaginary) {
+            (Lineshape::Gaussian { center, delta }, true) => {
+                let g = GaussianTerms::new(center, delta);
+                points.for_each(|(s, &x)| *s += strength * g.part(x, true));
+            }
+            (Lineshape::Gaussian { center, delta }, false) => {
+                let g = GaussianTerms::new(center, delta);
+                points.for_each(|(s, &x)| *s += strength * g.part(x, false));
+            }
+            _ => points.for_each(|(s, &x)| *s += strength * self.part(x, imaginary)),
+        }
+    }
 }
 
 /// s = i/(sqrt(pi) Delta) [w(z1) + w(z2)], z1,2 = (nu -+ nu_j + i G_L/2)/Delta,

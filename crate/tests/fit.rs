@@ -117,14 +117,14 @@ fn analytic_jacobian_matches_finite_differences() {
         let (mut rp, mut rm) = (Vec::new(), Vec::new());
         problem.residuals(&up, &mut rp);
         problem.residuals(&down, &mut rm);
-        let scale = (0..r.len()).map(|i| jac[i * n + k].abs()).fold(0.0, f64::max);
+        let scale = (0..r.len()).map(|i| jac[k * r.len() + i].abs()).fold(0.0, f64::max);
         for i in 0..r.len() {
             let numeric = (rp[i] - rm[i]) / (2.0 * h);
             assert!(
-                (numeric - jac[i * n + k]).abs() <= 1e-5 * scale + 1e-8,
+                (numeric - jac[k * r.len() + i]).abs() <= 1e-5 * scale + 1e-8,
                 "variable {k} ({:?}), residual {i}: analytic {} vs numeric {numeric}",
                 problem.layout.parameters[problem.layout.free[k].0].target,
-                jac[i * n + k]
+                jac[k * r.len() + i]
             );
         }
     }

@@ -15,8 +15,14 @@ import { bindFitSettings, renderFitSettings } from "./fitparams.js";
 import { fitCatalog } from "./fitmodes.js";
 import { renderReport, addComparison, bindReport } from "./fitreport.js";
 
-/** The fit in flight: the document it started from, the latest progress, the readout's frame, its starts and workers. */
-const run = { start: null, latest: null, frame: 0, starts: 0, workers: 1 };
+/** The fit in flight: the document it started from, the latest progress, the readout's timer, its starts and workers. */
+const run = { start: null, latest: null, timer: 0, starts: 0, workers: 1 };
+/**
+ * The readout changes at most this often (ms): each change is a layout and
+ * a paint on the page's thread, which on a machine of few cores takes time
+ * from the workers (a change every frame slowed a 50 ms fit by a fifth).
+ */
+const READOUT_MS = 100;
 /** Workers a fit's starts are split over, at most. */
 const MAX_FIT_WORKERS = 4;
 
@@ -36,9 +42,9 @@ function problem(text) {
   $("fit-problem").hidden = !text;
 }
 
-/** The readout, at most once a frame however fast the worker reports. */
+/** The readout, at most every READOUT_MS however fast the worker reports. */
 function showProgress() {
-  run.frame = 0;
+  run.timer = 0;
   const m = run.latest;
   if (!m || !fitRunning()) return;
   const on = run.workers > 1 ? ` (${run.workers} workers)` : "";
@@ -68,7 +74,7 @@ function startFit() {
   runFit(start, {
     onProgress(m) {
       run.latest = m;
-      if (!run.frame) run.frame = requestAnimationFrame(showProgress);
+      if (!run.timer) run.timer = setTimeout(showProgress, READOUT_MS);
     },
     onSnapshot(s) {
       const now = structuredClone(run.start);
@@ -104,8 +110,8 @@ function startFit() {
 /** Cancel: the worker goes, the start model is drawn again. */
 function stopFit(why) {
   if (!cancelFit()) return;
-  if (run.frame) cancelAnimationFrame(run.frame);
-  run.frame = 0;
+  clearTimeout(run.timer);
+  run.timer = 0;
   setRunning(false);
   say(why);
   setStatus(why);

@@ -4,8 +4,8 @@
 // whole fit, or { doc, first, stride, snapshotMs } for this worker's share of
 // the starts when several workers split them. Messages back: progress
 // (start, iteration, χ² after each accepted step), snapshot (the bands
-// reached, at most every snapshotMs), done (the core's reply) or failed (the
-// core trapped; this worker is spent). Cancel is the page terminating the
+// reached, at most every snapshotMs, the first after snapshotMs), done (the
+// core's reply) or failed (the core trapped; this worker is spent). Cancel is the page terminating the
 // worker: the loop cannot read messages.
 
 import init, { fit_document, fit_starts } from "../pkg/chiroptic.js";
@@ -22,7 +22,9 @@ self.onmessage = async (event) => {
     self.postMessage({ type: "failed", message: `the core did not load in the fit worker: ${e?.message ?? e}` });
     return;
   }
-  let last = -Infinity;
+  // The first snapshot only after snapshotMs: a fit quicker than that
+  // draws nothing midway, since the page's redraw would take time from it.
+  let last = performance.now();
   const progress = (start, iteration, chi_square) => {
     self.postMessage({ type: "progress", start, iteration, chi_square });
     const now = performance.now();

@@ -54,7 +54,9 @@ impl Stop {
 }
 
 /// A least-squares problem in unconstrained variables: residuals r(u) and
-/// their Jacobian (rows = residuals, columns = variables, row-major).
+/// their Jacobian, column-major (`jac[k * rows + i]` = d r_i / d u_k): the
+/// model fills it band by band, column by column, and the normal equations
+/// are dot products of its contiguous columns.
 pub trait Problem {
     fn residuals(&self, u: &[f64], r: &mut Vec<f64>);
     fn jacobian(&self, u: &[f64], r: &mut Vec<f64>, jac: &mut Vec<f64>);
@@ -81,7 +83,7 @@ pub fn minimise(problem: &dyn Problem, u0: &[f64], max_iterations: usize, progre
     let (mut r, mut jac) = (Vec::new(), Vec::new());
     problem.jacobian(&u, &mut r, &mut jac);
     let mut chi = sum_sq(&r);
-    if n == 0 || !chi.is_finite() {
+    if n == 0 || r.is_empty() || !chi.is_finite() {
         return Outcome { u, chi_square: chi, iterations: 0, stop: if chi.is_finite() { Stop::Converged } else { Stop::Stalled } };
     }
     let mut lambda = -1.0;
@@ -94,12 +96,7 @@ pub fn minimise(problem: &dyn Problem, u0: &[f64], max_iterations: usize, progre
     for iteration in 1..=max_iterations {
         // Normal equations A = J^T J, g = J^T r.
         let a = normal_matrix(&jac, n);
-        let mut g = vec![0.0; n];
-        for (i, ri) in r.iter().enumerate() {
-            for (gp, jp) in g.iter_mut().zip(&jac[i * n..(i + 1) * n]) {
-                *gp += jp * ri;
-            }
-        }
+        let g: Vec<f64> = jac.chunks_exact(r.len()).map(|column| dot(column, &r)).collect();
         let gmax = g.iter().fold(0.0_f64, |m, v| m.max(v.abs()));
         if gmax <= 1e-14 * chi.max(1e-300) {
             return Outcome { u, chi_square: chi, iterations: iteration - 1, stop: Stop::Gradient };
@@ -170,26 +167,18 @@ pub fn minimise(problem: &dyn Problem, u0: &[f64], max_iterations: usize, progre
     Outcome { u, chi_square: chi, iterations: max_iterations, stop: Stop::IterationLimit }
 }
 
-/// J^T J for a row-major Jacobian of `n` columns: the columns are copied
-/// out once so that each entry is a dot product over contiguous memory,
-/// summed in four interleaved lanes (which the compiler vectorises; a
-/// running sum in one lane cannot be reordered).
+/// J^T J for a column-major Jacobian of `n` columns: each entry a dot
+/// product of two contiguous columns.
 pub fn normal_matrix(jac: &[f64], n: usize) -> Vec<f64> {
     let mut a = vec![0.0; n * n];
     if n == 0 {
         return a;
     }
     let rows = jac.len() / n;
-    let mut columns = vec![0.0; rows * n];
-    for (i, row) in jac.chunks_exact(n).enumerate() {
-        for (p, v) in row.iter().enumerate() {
-            columns[p * rows + i] = *v;
-        }
-    }
     for p in 0..n {
-        let cp = &columns[p * rows..(p + 1) * rows];
+        let cp = &jac[p * rows..(p + 1) * rows];
         for q in p..n {
-            let v = dot(cp, &columns[q * rows..(q + 1) * rows]);
+            let v = dot(cp, &jac[q * rows..(q + 1) * rows]);
             a[p * n + q] = v;
             a[q * n + p] = v;
         }
@@ -197,6 +186,8 @@ pub fn normal_matrix(jac: &[f64], n: usize) -> Vec<f64> {
     a
 }
 
+/// Summed in four interleaved lanes, which the compiler vectorises (a
+/// running sum in one lane cannot be reordered).
 fn dot(x: &[f64], y: &[f64]) -> f64 {
     let mut lanes = [0.0; 4];
     let (xc, yc) = (x.chunks_exact(4), y.chunks_exact(4));

@@ -7,7 +7,7 @@ use super::params::{Layout, Target};
 use crate::data::DataSet;
 use crate::document::{Document, SystemDoc};
 use crate::import::Measured;
-use crate::lineshape::Lineshape;
+use crate::lineshape::{Lineshape, PartColumns};
 use crate::model::Model;
 use crate::spectra::{chiral_scale, epsilon_from_k, mean_scale};
 use crate::units::{self, CdUnit};
@@ -43,6 +43,10 @@ pub struct FitProblem {
     /// The band shapes' kinds (0 Lorentz, 1 Gaussian, 2 Voigt), per band.
     kinds: Vec<u8>,
     points: Vec<Point>,
+    /// Each point's wavenumber, and the runs of points of one set (so of one
+    /// part): the bands are evaluated run by run, a column at a time.
+    nu: Vec<f64>,
+    runs: Vec<Run>,
     /// Each band's parameter indices, looked up once (the inner loops run
     /// per point and band).
     bands: Vec<BandColumns>,
@@ -74,6 +78,14 @@ struct CoupledTerm {
 
 /// Central-difference steps for a system's distance (relative) and twist (degrees).
 const GEOMETRY_STEP: (f64, f64) = (1e-5, 1e-3);
+
+/// Consecutive points of one set.
+#[derive(Debug, Clone)]
+struct Run {
+    set: usize,
+    part: Part,
+    points: std::ops::Range<usize>,
+}
 
 /// Which parameter sets each field of a band.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -141,8 +153,16 @@ impl FitProblem {
             let n = crate::spectra::solvent_index(model, &nu).map_err(|e| e.to_string())?;
             (nu, n)
         };
+        let nu = points.iter().map(|p| p.nu).collect();
+        let mut runs: Vec<Run> = Vec::new();
+        for (i, p) in points.iter().enumerate() {
+            match runs.last_mut() {
+                Some(run) if run.set == p.set && run.part == p.part => run.points.end = i + 1,
+                _ => runs.push(Run { set: p.set, part: p.part, points: i..i + 1 }),
+            }
+        }
         let mut problem =
-            FitProblem { layout, kinds, points, bands, shift, set_columns, set_count, coupled: Vec::new(), point_nu, n_solvent };
+            FitProblem { layout, kinds, points, nu, runs, bands, shift, set_columns, set_count, coupled: Vec::new(), point_nu, n_solvent };
         for (s, system) in doc.systems.iter().enumerate() {
             let distance = index.get(&Target::Distance(s)).copied();
             let twist = index.get(&Target::Twist(s)).copied();
@@ -261,62 +281,82 @@ impl FitProblem {
         self.strength_column(band, part).map(|i| values[i]).unwrap_or(0.0)
     }
 
-    /// Residuals and the Jacobian with respect to the model's values
-    /// (one column per parameter, fixed ones included).
-    fn evaluate(&self, values: &[f64], r: &mut Vec<f64>, jv: Option<&mut Vec<f64>>) {
-        let np = self.layout.parameters.len();
+    /// Residuals and, when `jac` is given, their Jacobian in the free
+    /// variables, column-major (`jac[k * rows + i]`). `slopes` are dv/du
+    /// of each free variable (None: the variables are the free parameters'
+    /// own values); a linked parameter adds its factor times its free
+    /// variable's slope to that column.
+    fn evaluate(&self, values: &[f64], r: &mut Vec<f64>, jac: Option<(&mut Vec<f64>, Option<&[f64]>)>) {
         let shapes: Vec<Lineshape> = (0..self.kinds.len()).map(|b| self.shape(values, b)).collect();
-        let (coupled, coupled_columns) = self.coupled_terms(values, jv.is_some());
-        // Band by band, point by point: each band's shape is chosen once and
-        // its strengths read once, for all points.
+        let (coupled, coupled_columns) = self.coupled_terms(values, jac.is_some());
+        // Band by band, run by run: each band's shape and part are chosen
+        // once per run, and its strengths read once.
         let mut sums = coupled;
-        let Some(j) = jv else {
+        let strength = |b: usize, part: Part| self.strength(values, b, part);
+        let Some((j, slopes)) = jac else {
             for (b, shape) in shapes.iter().enumerate() {
-                let (rotatory, dipole) = (self.strength(values, b, Part::ChiralIm), self.strength(values, b, Part::MeanIm));
-                for (sum, p) in sums.iter_mut().zip(&self.points) {
-                    let strength = if p.part == Part::MeanIm { dipole } else { rotatory };
-                    *sum += strength * shape.part(p.nu, p.part != Part::ChiralRe);
+                for run in &self.runs {
+                    let range = run.points.clone();
+                    shape.add_part(&self.nu[range.clone()], run.part != Part::ChiralRe, strength(b, run.part), &mut sums[range]);
                 }
             }
             self.residuals_from(values, &sums, r);
             return;
         };
+        let rows = self.points.len();
         j.clear();
-        j.resize(self.points.len() * np, 0.0);
+        j.resize(rows * self.layout.free.len(), 0.0);
+        // Where a parameter's derivative goes: (start of its free variable's
+        // column, dv/du of the parameter), None when it is fixed.
+        let column = |c: Option<usize>| {
+            let (k, factor, _) = self.layout.map[c?]?;
+            Some((k * rows, factor * slopes.map_or(1.0, |s| s[k])))
+        };
+        // column[i] += factor * k[i] * d[i] over a run, where
         // d observable / d value = weight * scale * factor * (d sum / d value).
         let k: Vec<f64> = self.points.iter().map(|p| p.weight * self.offset_scale(values, p.set).1 * p.factor).collect();
+        let mut add = |c: Option<(usize, f64)>, factor: f64, range: &std::ops::Range<usize>, d: &[f64]| {
+            if let Some((start, slope)) = c {
+                let f = slope * factor;
+                for ((jv, ki), di) in j[start + range.start..start + range.end].iter_mut().zip(&k[range.clone()]).zip(d) {
+                    *jv += ki * f * di;
+                }
+            }
+        };
+        let shift = column(self.shift);
+        let mut parts = PartColumns::default();
         for (b, shape) in shapes.iter().enumerate() {
             let cols = self.bands[b];
-            let (rotatory, dipole) = (self.strength(values, b, Part::ChiralIm), self.strength(values, b, Part::MeanIm));
-            for (i, p) in self.points.iter().enumerate() {
-                let d = shape.part_derivatives(p.nu, p.part != Part::ChiralRe);
-                let (strength, strength_column) = if p.part == Part::MeanIm { (dipole, cols.dipole) } else { (rotatory, cols.rotatory) };
-                sums[i] += strength * d.value;
-                let row = &mut j[i * np..(i + 1) * np];
-                let mut put = |c: Option<usize>, v: f64| {
-                    if let Some(col) = c {
-                        row[col] += k[i] * v;
-                    }
-                };
-                put(strength_column, d.value);
-                let dc = strength * d.d_center;
-                put(cols.center, dc);
-                put(self.shift, dc);
-                put(cols.fwhm, strength * d.d_fwhm);
-                put(cols.lorentz, strength * d.d_lorentz_fwhm);
+            let (center, fwhm, lorentz) = (column(cols.center), column(cols.fwhm), column(cols.lorentz));
+            for run in &self.runs {
+                let range = run.points.clone();
+                shape.part_columns(&self.nu[range.clone()], run.part != Part::ChiralRe, &mut parts);
+                let a = strength(b, run.part);
+                for (s, v) in sums[range.clone()].iter_mut().zip(&parts.value) {
+                    *s += a * v;
+                }
+                add(column(self.strength_column(b, run.part)), 1.0, &range, &parts.value);
+                add(center, a, &range, &parts.d_center);
+                add(shift, a, &range, &parts.d_center);
+                add(fwhm, a, &range, &parts.d_fwhm);
+                add(lorentz, a, &range, &parts.d_lorentz_fwhm);
             }
         }
-        for (i, p) in self.points.iter().enumerate() {
-            let row = &mut j[i * np..(i + 1) * np];
-            for (col, d) in &coupled_columns {
-                row[*col] += k[i] * d[i];
-            }
-            let (o, sc) = self.set_columns[p.set];
-            if let Some(col) = sc {
-                row[col] = p.weight * p.factor * sums[i];
-            }
-            if let Some(col) = o {
-                row[col] = p.weight;
+        for (c, d) in &coupled_columns {
+            add(column(Some(*c)), 1.0, &(0..rows), d);
+        }
+        for run in &self.runs {
+            let (o, sc) = self.set_columns[run.set];
+            let range = run.points.clone();
+            let factors: Vec<f64> =
+                self.points[range.clone()].iter().zip(&sums[range.clone()]).map(|(p, s)| p.weight * p.factor * s).collect();
+            let weights: Vec<f64> = self.points[range.clone()].iter().map(|p| p.weight).collect();
+            for (c, d) in [(column(sc), factors), (column(o), weights)] {
+                if let Some((start, slope)) = c {
+                    for (jv, di) in j[start + range.start..start + range.end].iter_mut().zip(&d) {
+                        *jv += slope * di;
+                    }
+                }
             }
         }
         self.residuals_from(values, &sums, r);
@@ -333,27 +373,9 @@ impl FitProblem {
 
     /// Residuals and the Jacobian with respect to the free parameters'
     /// own values, linked ones moving with theirs (for the standard errors,
-    /// which are quoted in the model's values).
+    /// which are quoted in the model's values); column-major.
     pub fn free_value_jacobian(&self, values: &[f64], r: &mut Vec<f64>, jac: &mut Vec<f64>) {
-        let mut jv = Vec::new();
-        self.evaluate(values, r, Some(&mut jv));
-        self.chain(&jv, r.len(), None, jac);
-    }
-
-    /// The Jacobian on the free variables from the one on every parameter:
-    /// d r / d u_k = sum over parameters set by k of factor * (dv_k/du_k).
-    fn chain(&self, jv: &[f64], rows: usize, slopes: Option<&[f64]>, jac: &mut Vec<f64>) {
-        let np = self.layout.parameters.len();
-        let nf = self.layout.free.len();
-        jac.clear();
-        jac.resize(rows * nf, 0.0);
-        for i in 0..rows {
-            for (p, m) in self.layout.map.iter().enumerate() {
-                if let Some((k, factor, _)) = m {
-                    jac[i * nf + k] += jv[i * np + p] * factor * slopes.map_or(1.0, |s| s[*k]);
-                }
-            }
-        }
+        self.evaluate(values, r, Some((jac, None)));
     }
 }
 
@@ -392,8 +414,6 @@ impl Problem for FitProblem {
 
     fn jacobian(&self, u: &[f64], r: &mut Vec<f64>, jac: &mut Vec<f64>) {
         let values = self.layout.values(u);
-        let mut jv = Vec::new();
-        self.evaluate(&values, r, Some(&mut jv));
-        self.chain(&jv, r.len(), Some(&self.layout.slopes(u)), jac);
+        self.evaluate(&values, r, Some((jac, Some(&self.layout.slopes(u)))));
     }
 }

@@ -27,7 +27,6 @@ enum Part {
 #[derive(Debug, Clone, PartialEq)]
 struct Point {
     set: usize,
-    nu: f64,
     /// Converts R (or D) in document units times the shape part into the set's unit.
     factor: f64,
     part: Part,
@@ -56,9 +55,8 @@ pub struct FitProblem {
     pub set_count: usize,
     /// The coupled systems' share of each point (see [`CoupledTerm`]).
     coupled: Vec<CoupledTerm>,
-    /// Each point's wavenumber and the solvent's index there, for the
-    /// coupled systems' response (empty when there are none).
-    point_nu: Vec<f64>,
+    /// The solvent's index at each point, for the coupled systems' response
+    /// (empty when there are none).
     n_solvent: Vec<f64>,
 }
 
@@ -117,20 +115,22 @@ impl FitProblem {
                 Lineshape::Voigt { .. } => 2,
             })
             .collect();
-        let mut points = Vec::new();
+        let (mut points, mut nu) = (Vec::new(), Vec::new());
         for (s, (set, weights)) in obs.sets.iter().zip(obs.weights).enumerate() {
             let ctx = set.context;
             for ((x, y), w) in set.x.iter().zip(&set.y).zip(weights) {
-                let nu = set.axis.to_wavenumber(*x);
-                let (factor, part) = observable_factor(set.measured, nu, &ctx).map_err(|e| format!("{}: {e}", set.name))?;
-                points.push(Point { set: s, nu, factor, part, y: *y, weight: *w });
+                let at = set.axis.to_wavenumber(*x);
+                let (factor, part) = observable_factor(set.measured, at, &ctx).map_err(|e| format!("{}: {e}", set.name))?;
+                points.push(Point { set: s, factor, part, y: *y, weight: *w });
+                nu.push(at);
             }
         }
         let reading_set = obs.sets.len();
-        for (nu, phi, w, ctx) in obs.readings {
-            let factor = units::degrees_from_delta_n(chiral_scale(ctx.concentration_mol_per_l), *nu, ctx.path_length_cm)
+        for (at, phi, w, ctx) in obs.readings {
+            let factor = units::degrees_from_delta_n(chiral_scale(ctx.concentration_mol_per_l), *at, ctx.path_length_cm)
                 * units::ESU2_CM2_PER_ROTATORY_UNIT;
-            points.push(Point { set: reading_set, nu: *nu, factor, part: Part::ChiralRe, y: *phi, weight: *w });
+            points.push(Point { set: reading_set, factor, part: Part::ChiralRe, y: *phi, weight: *w });
+            nu.push(*at);
         }
         let index: std::collections::HashMap<Target, usize> = layout.parameters.iter().enumerate().map(|(i, p)| (p.target, i)).collect();
         let bands = (0..model.bands.len())
@@ -146,14 +146,8 @@ impl FitProblem {
         let set_columns = (0..set_count).map(|s| (index.get(&Target::Offset(s)).copied(), index.get(&Target::Scale(s)).copied())).collect();
         let shift = index.get(&Target::Shift).copied();
         // Only a coupled system needs the solvent's index (its screening).
-        let (point_nu, n_solvent) = if doc.systems.is_empty() {
-            (Vec::new(), Vec::new())
-        } else {
-            let nu: Vec<f64> = points.iter().map(|p| p.nu).collect();
-            let n = crate::spectra::solvent_index(model, &nu).map_err(|e| e.to_string())?;
-            (nu, n)
-        };
-        let nu = points.iter().map(|p| p.nu).collect();
+        let n_solvent =
+            if doc.systems.is_empty() { Vec::new() } else { crate::spectra::solvent_index(model, &nu).map_err(|e| e.to_string())? };
         let mut runs: Vec<Run> = Vec::new();
         for (i, p) in points.iter().enumerate() {
             match runs.last_mut() {
@@ -162,7 +156,7 @@ impl FitProblem {
             }
         }
         let mut problem =
-            FitProblem { layout, kinds, points, nu, runs, bands, shift, set_columns, set_count, coupled: Vec::new(), point_nu, n_solvent };
+            FitProblem { layout, kinds, points, nu, runs, bands, shift, set_columns, set_count, coupled: Vec::new(), n_solvent };
         for (s, system) in doc.systems.iter().enumerate() {
             let distance = index.get(&Target::Distance(s)).copied();
             let twist = index.get(&Target::Twist(s)).copied();
@@ -192,7 +186,7 @@ impl FitProblem {
             crate::coupled::geometry::set_distance_and_twist(&mut doc, values[c] + step.0, twist);
         }
         let system = crate::coupled::System::from_doc(term.index, &doc).map_err(|e| e.to_string())?;
-        let (chiral, mean) = system.response(&self.point_nu, &self.n_solvent).map_err(|e| e.to_string())?;
+        let (chiral, mean) = system.response(&self.nu, &self.n_solvent).map_err(|e| e.to_string())?;
         Ok(self
             .points
             .iter()
@@ -347,15 +341,14 @@ impl FitProblem {
         }
         for run in &self.runs {
             let (o, sc) = self.set_columns[run.set];
-            let range = run.points.clone();
-            let factors: Vec<f64> =
-                self.points[range.clone()].iter().zip(&sums[range.clone()]).map(|(p, s)| p.weight * p.factor * s).collect();
-            let weights: Vec<f64> = self.points[range.clone()].iter().map(|p| p.weight).collect();
-            for (c, d) in [(column(sc), factors), (column(o), weights)] {
-                if let Some((start, slope)) = c {
-                    for (jv, di) in j[start + range.start..start + range.end].iter_mut().zip(&d) {
-                        *jv += slope * di;
-                    }
+            let (o, sc) = (column(o), column(sc));
+            for i in run.points.clone() {
+                let p = &self.points[i];
+                if let Some((start, slope)) = sc {
+                    j[start + i] += slope * p.weight * p.factor * sums[i];
+                }
+                if let Some((start, slope)) = o {
+                    j[start + i] += slope * p.weight;
                 }
             }
         }
